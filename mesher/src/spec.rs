@@ -1,0 +1,136 @@
+//! What the caller asks for: shapes, tags, sizes and quality targets. Plain data, no physics.
+
+/// A point (r, z) in metres.
+pub type Point = [f64; 2];
+
+/// A closed shape in the half-plane r >= 0, all lengths in metres.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Shape {
+    /// Axis-aligned rectangle r in [r_min, r_max], z in [z_min, z_max]; r_min may be 0 (touches the axis).
+    Rect {
+        /// Inner radius (m), >= 0.
+        r_min: f64,
+        /// Outer radius (m), > r_min.
+        r_max: f64,
+        /// Lower axial bound (m).
+        z_min: f64,
+        /// Upper axial bound (m), > z_min.
+        z_max: f64,
+    },
+    /// Right half of an ellipse centred on the axis at z = z_centre: semi-axis `radial` along r, `axial` along z (sphere when equal).
+    HalfEllipse {
+        /// Axial position of the centre (m).
+        z_centre: f64,
+        /// Semi-axis along r (m), > 0.
+        radial: f64,
+        /// Semi-axis along z (m), > 0.
+        axial: f64,
+    },
+}
+
+impl Shape {
+    /// Exact area of the shape in the (r, z) plane (m²), before polygonisation.
+    pub fn exact_area(&self) -> f64 {
+        match *self {
+            Shape::Rect {
+                r_min,
+                r_max,
+                z_min,
+                z_max,
+            } => (r_max - r_min) * (z_max - z_min),
+            Shape::HalfEllipse { radial, axial, .. } => 0.5 * std::f64::consts::PI * radial * axial,
+        }
+    }
+}
+
+/// One tagged region: a shape, its tag, and the target element size inside it (m).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Region {
+    /// Tag copied onto every triangle of the region; several regions may share a tag.
+    pub tag: u32,
+    /// The region's outline.
+    pub shape: Shape,
+    /// Target element size inside the region (m).
+    pub size: f64,
+}
+
+/// Where the mesh must be fine: a point (sharp corner) or the boundary of a region, with a size there (m).
+#[derive(Debug, Clone, PartialEq)]
+pub enum Refinement {
+    /// Fine around one point, e.g. a corner where the field is singular.
+    Point {
+        /// Location (r, z) in m.
+        at: Point,
+        /// Element size at the point (m).
+        size: f64,
+    },
+    /// Fine along the boundary of `regions[region]`, leaving out the parts that lie on the axis r = 0
+    /// (in the body of revolution those are not surfaces).
+    Boundary {
+        /// Index into [`MeshSpec::regions`].
+        region: usize,
+        /// Element size on the boundary (m).
+        size: f64,
+    },
+}
+
+/// Everything [`crate::build_mesh`] needs.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MeshSpec {
+    /// Radius of the outer half-disc, centred at (0, 0) (m).
+    pub outer_radius: f64,
+    /// Tag of the air region (everything not in a region).
+    pub background_tag: u32,
+    /// Tagged regions, strictly inside the outer half-disc polygon; they must not overlap, but may
+    /// touch along edges or at corners. Triangles take the tag of the first region holding their centroid.
+    pub regions: Vec<Region>,
+    /// Radii (m) of extra half-circle constraint arcs centred at (0, 0); an arc may run inside or
+    /// outside a region, or along its outline, but not pass from its inside to its outside.
+    pub interior_arcs: Vec<f64>,
+    /// Places where the mesh must be fine.
+    pub refinements: Vec<Refinement>,
+    /// Largest element size anywhere (m). Sizes are longest-edge lengths: no triangle edge ends up
+    /// longer than the target h evaluated at that triangle's centroid.
+    pub far_size: f64,
+    /// Size growth per unit distance away from a refinement feature (dimensionless).
+    pub grading: f64,
+    /// Smallest triangle angle to reach (degrees), 0 to 30. Not reachable where two input boundaries
+    /// meet at a smaller angle (e.g. a rectangle resting on the tip of a half-ellipse):
+    /// [`crate::Mesh::stats`] reports what was reached.
+    pub min_angle_deg: f64,
+    /// Largest relative chord sagitta (sagitta / radius of curvature) of curved region boundaries and
+    /// interior arcs; the outer arc uses `max(arc_tolerance, 1e-3)`.
+    pub arc_tolerance: f64,
+    /// Largest number of nodes allowed; reaching it is an error.
+    pub max_nodes: usize,
+}
+
+impl MeshSpec {
+    /// Default far-field size as a fraction of the outer radius.
+    pub const DEFAULT_FAR_FRACTION: f64 = 0.1;
+    /// Default size growth per unit distance (common practice for smooth grading).
+    pub const DEFAULT_GRADING: f64 = 0.25;
+    /// Default quality target (degrees).
+    pub const DEFAULT_MIN_ANGLE_DEG: f64 = 25.0;
+    /// Default relative sagitta of curved region boundaries.
+    pub const DEFAULT_ARC_TOLERANCE: f64 = 1e-4;
+    /// Default node cap.
+    pub const DEFAULT_MAX_NODES: usize = 2_000_000;
+
+    /// An empty domain of radius `outer_radius` with the documented defaults:
+    /// far size `0.1 * outer_radius`, grading 0.25, 25°, arc tolerance 1e-4, 2 million nodes.
+    pub fn new(outer_radius: f64, background_tag: u32) -> Self {
+        Self {
+            outer_radius,
+            background_tag,
+            regions: Vec::new(),
+            interior_arcs: Vec::new(),
+            refinements: Vec::new(),
+            far_size: Self::DEFAULT_FAR_FRACTION * outer_radius,
+            grading: Self::DEFAULT_GRADING,
+            min_angle_deg: Self::DEFAULT_MIN_ANGLE_DEG,
+            arc_tolerance: Self::DEFAULT_ARC_TOLERANCE,
+            max_nodes: Self::DEFAULT_MAX_NODES,
+        }
+    }
+}

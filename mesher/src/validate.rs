@@ -1,0 +1,146 @@
+//! Number checks done before any geometry is built, so later stages can trust finite, positive values.
+
+use crate::error::MeshError;
+use crate::shape::chord_count;
+use crate::spec::{MeshSpec, Refinement, Shape};
+
+/// Largest quality target accepted: above 30° Delaunay refinement may not terminate (spade 2.15
+/// documentation of `AngleLimit::from_deg` and `RefinementParameters::with_angle_limit`).
+pub const MAX_MIN_ANGLE_DEG: f64 = 30.0;
+
+/// Outer-arc relative sagitta: the outer boundary is an artificial truncation of open space, so a
+/// coarser polygon than for the regions does no harm.
+pub const OUTER_ARC_TOLERANCE: f64 = 1e-3;
+
+fn positive(what: &'static str, value: f64) -> Result<(), MeshError> {
+    if value.is_finite() && value > 0.0 {
+        Ok(())
+    } else {
+        Err(MeshError::BadSize { what, value })
+    }
+}
+
+fn finite(what: &'static str, value: f64) -> Result<(), MeshError> {
+    if value.is_finite() {
+        Ok(())
+    } else {
+        Err(MeshError::BadSize { what, value })
+    }
+}
+
+/// Checks every number of the spec; geometry (overlaps, crossings) is checked later on the polygons.
+pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
+    positive("outer_radius", spec.outer_radius)?;
+    positive("far_size", spec.far_size)?;
+    finite("grading", spec.grading)?;
+    if spec.grading < 0.0 {
+        return Err(MeshError::BadSize {
+            what: "grading",
+            value: spec.grading,
+        });
+    }
+    let angle = spec.min_angle_deg;
+    if !(angle.is_finite() && (0.0..=MAX_MIN_ANGLE_DEG).contains(&angle)) {
+        return Err(MeshError::BadSize {
+            what: "min_angle_deg",
+            value: angle,
+        });
+    }
+    let tol = spec.arc_tolerance;
+    if !(tol.is_finite() && tol > 0.0 && tol < 1.0) {
+        return Err(MeshError::BadSize {
+            what: "arc_tolerance",
+            value: tol,
+        });
+    }
+    // Every curved outline costs `chord_count` vertices: refuse before allocating them.
+    let curves = 1
+        + spec.interior_arcs.len()
+        + spec
+            .regions
+            .iter()
+            .filter(|r| matches!(r.shape, Shape::HalfEllipse { .. }))
+            .count();
+    let estimate = chord_count(tol) * curves as f64 + 4.0 * spec.regions.len() as f64;
+    if estimate > spec.max_nodes as f64 {
+        return Err(MeshError::TooManyNodes {
+            limit: spec.max_nodes,
+            reached: estimate.min(usize::MAX as f64) as usize,
+        });
+    }
+
+    for (i, region) in spec.regions.iter().enumerate() {
+        positive("region size", region.size)?;
+        check_shape(i, &region.shape)?;
+    }
+    // The outer polygon keeps at least R (1 − outer tolerance) from the centre; an arc (whose vertices
+    // lie on its circle) inside that radius cannot reach it.
+    let outer_inner_radius = spec.outer_radius * (1.0 - tol.max(OUTER_ARC_TOLERANCE));
+    for &rho in &spec.interior_arcs {
+        positive("interior arc radius", rho)?;
+        if rho >= outer_inner_radius {
+            return Err(MeshError::BadSize {
+                what: "interior arc radius (must be inside the outer polygon)",
+                value: rho,
+            });
+        }
+    }
+    for (k, refinement) in spec.refinements.iter().enumerate() {
+        match *refinement {
+            Refinement::Point { at, size } => {
+                finite("refinement point r", at[0])?;
+                finite("refinement point z", at[1])?;
+                positive("refinement size", size)?;
+            }
+            Refinement::Boundary { region, size } => {
+                positive("refinement size", size)?;
+                if region >= spec.regions.len() {
+                    return Err(MeshError::NoSuchRegion {
+                        refinement: k,
+                        region,
+                        regions: spec.regions.len(),
+                    });
+                }
+            }
+        }
+    }
+    Ok(())
+}
+
+fn check_shape(region: usize, shape: &Shape) -> Result<(), MeshError> {
+    let bad = |reason| Err(MeshError::BadShape { region, reason });
+    match *shape {
+        Shape::Rect {
+            r_min,
+            r_max,
+            z_min,
+            z_max,
+        } => {
+            if ![r_min, r_max, z_min, z_max].iter().all(|v| v.is_finite()) {
+                return bad("non-finite bound");
+            }
+            if r_min < 0.0 {
+                return bad("r_min < 0");
+            }
+            if r_max <= r_min {
+                return bad("r_max <= r_min");
+            }
+            if z_max <= z_min {
+                return bad("z_max <= z_min");
+            }
+        }
+        Shape::HalfEllipse {
+            z_centre,
+            radial,
+            axial,
+        } => {
+            if ![z_centre, radial, axial].iter().all(|v| v.is_finite()) {
+                return bad("non-finite parameter");
+            }
+            if radial <= 0.0 || axial <= 0.0 {
+                return bad("semi-axis <= 0");
+            }
+        }
+    }
+    Ok(())
+}

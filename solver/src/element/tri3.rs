@@ -1,0 +1,158 @@
+//! The 3-node (first-order) triangle.
+//!
+//! ```text
+//!   z
+//!   ^     2
+//!   |     | \
+//!   |     |   \
+//!   |     0 --- 1
+//!   +-----------------> r
+//! ```
+//! Shape functions are the barycentric coordinates: N_i = λ_i, with constant gradients.
+
+use crate::mesh::{FeMesh, Point};
+use crate::quadrature::DUNAVANT_5;
+
+/// A quadrature point in physical coordinates with its measure.
+#[derive(Debug, Clone, Copy)]
+pub struct QuadPoint {
+    /// Radius r in m (always > 0: points lie strictly inside the triangle).
+    pub r: f64,
+    /// Axial position z in m.
+    pub z: f64,
+    /// Shape function values N_i at this point.
+    pub n: [f64; 3],
+    /// Volume measure dV = 2π r · area · weight in m³ (full revolution).
+    pub dv: f64,
+}
+
+/// Geometry of one triangle: area, constant shape-function gradients and quadrature points.
+#[derive(Debug, Clone)]
+pub struct ElementGeometry {
+    /// Area in the (r, z) plane in m².
+    pub area: f64,
+    /// ∂N_i/∂r in 1/m.
+    pub dn_dr: [f64; 3],
+    /// ∂N_i/∂z in 1/m.
+    pub dn_dz: [f64; 3],
+    /// Quadrature points with 2πr-weighted measures.
+    pub qp: [QuadPoint; 7],
+}
+
+impl ElementGeometry {
+    /// Geometry of a counter-clockwise triangle with corners `p`.
+    pub fn new(p: [Point; 3]) -> Self {
+        let twice_area = (p[1][0] - p[0][0]) * (p[2][1] - p[0][1])
+            - (p[2][0] - p[0][0]) * (p[1][1] - p[0][1]);
+        let mut dn_dr = [0.0; 3];
+        let mut dn_dz = [0.0; 3];
+        for i in 0..3 {
+            let j = (i + 1) % 3;
+            let k = (i + 2) % 3;
+            dn_dr[i] = (p[j][1] - p[k][1]) / twice_area;
+            dn_dz[i] = (p[k][0] - p[j][0]) / twice_area;
+        }
+        let area = 0.5 * twice_area;
+        let qp = DUNAVANT_5.map(|rp| {
+            let [l0, l1, l2] = rp.bary;
+            let r = l0 * p[0][0] + l1 * p[1][0] + l2 * p[2][0];
+            let z = l0 * p[0][1] + l1 * p[1][1] + l2 * p[2][1];
+            QuadPoint {
+                r,
+                z,
+                n: rp.bary,
+                dv: 2.0 * std::f64::consts::PI * r * area * rp.weight,
+            }
+        });
+        Self {
+            area,
+            dn_dr,
+            dn_dz,
+            qp,
+        }
+    }
+
+    /// Geometry of every triangle of `mesh`, in triangle order.
+    pub fn all(mesh: &FeMesh) -> Vec<ElementGeometry> {
+        use rayon::prelude::*;
+        (0..mesh.triangles.len())
+            .into_par_iter()
+            .map(|t| Self::new(mesh.corners(t)))
+            .collect()
+    }
+
+    /// Volume of the ring swept by this triangle in m³.
+    pub fn volume(&self) -> f64 {
+        self.qp.iter().map(|q| q.dv).sum()
+    }
+
+    /// The two B-operators of shape function `i` at quadrature point `q`:
+    /// (B_r, B_z) = (−∂N_i/∂z, ∂N_i/∂r + N_i/r).
+    #[inline]
+    pub fn curl(&self, i: usize, q: &QuadPoint) -> [f64; 2] {
+        [-self.dn_dz[i], self.dn_dr[i] + q.n[i] / q.r]
+    }
+
+    /// B = curl(A e_φ) at quadrature point `q` for nodal values `a` (Wb/m) → (B_r, B_z) in T.
+    #[inline]
+    pub fn b_at(&self, a: [f64; 3], q: &QuadPoint) -> [f64; 2] {
+        let mut b = [0.0; 2];
+        for (i, ai) in a.iter().enumerate() {
+            let c = self.curl(i, q);
+            b[0] += ai * c[0];
+            b[1] += ai * c[1];
+        }
+        b
+    }
+
+    /// Volume average of B over the element for nodal values `a`, in T.
+    pub fn b_mean(&self, a: [f64; 3]) -> [f64; 2] {
+        let mut acc = [0.0; 2];
+        let mut v = 0.0;
+        for q in &self.qp {
+            let b = self.b_at(a, q);
+            acc[0] += b[0] * q.dv;
+            acc[1] += b[1] * q.dv;
+            v += q.dv;
+        }
+        [acc[0] / v, acc[1] / v]
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn gradients_reproduce_a_linear_function() {
+        let g = ElementGeometry::new([[1.0, 0.0], [2.0, 0.5], [1.2, 1.5]]);
+        // f = 3 + 2r − 5z at the corners
+        let f = |p: Point| 3.0 + 2.0 * p[0] - 5.0 * p[1];
+        let v = [f([1.0, 0.0]), f([2.0, 0.5]), f([1.2, 1.5])];
+        let dr: f64 = (0..3).map(|i| v[i] * g.dn_dr[i]).sum();
+        let dz: f64 = (0..3).map(|i| v[i] * g.dn_dz[i]).sum();
+        assert!((dr - 2.0).abs() < 1e-13 && (dz + 5.0).abs() < 1e-13);
+    }
+
+    #[test]
+    fn ring_volume_matches_pappus_theorem() {
+        // Pappus: volume of revolution = 2π · (centroid radius) · area.
+        let p = [[1.0, 0.0], [3.0, 0.0], [2.0, 2.0]];
+        let g = ElementGeometry::new(p);
+        let exact = 2.0 * std::f64::consts::PI * 2.0 * 2.0;
+        assert!((g.volume() - exact).abs() < 1e-12 * exact);
+    }
+
+    #[test]
+    fn uniform_axial_field_is_exact_in_an_element_touching_the_axis() {
+        // A = B0 r / 2 is linear, so a first-order element holds it exactly: B = (0, B0).
+        let p = [[0.0, 0.0], [0.5, 0.1], [0.0, 1.0]];
+        let g = ElementGeometry::new(p);
+        let b0 = 1.7;
+        let a = p.map(|q| 0.5 * b0 * q[0]);
+        for q in &g.qp {
+            let b = g.b_at(a, q);
+            assert!(b[0].abs() < 1e-14 && (b[1] - b0).abs() < 1e-13);
+        }
+    }
+}

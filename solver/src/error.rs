@@ -1,0 +1,66 @@
+//! Errors of the solver crate.
+
+/// What can go wrong while setting up or solving a field problem.
+#[derive(Debug, thiserror::Error)]
+pub enum SolverError {
+    /// A triangle references a node that does not exist.
+    #[error("triangle {triangle} references node {node}, but the mesh has {nodes} nodes")]
+    BadNodeIndex {
+        /// Triangle index.
+        triangle: usize,
+        /// Offending node index.
+        node: u32,
+        /// Number of nodes.
+        nodes: usize,
+    },
+    /// A triangle has zero or negative area (must be counter-clockwise in (r, z)).
+    #[error("triangle {triangle} is degenerate or clockwise (signed area {area:e} m²)")]
+    BadTriangle {
+        /// Triangle index.
+        triangle: usize,
+        /// Signed area in m².
+        area: f64,
+    },
+    /// A node lies at r < 0.
+    #[error("node {node} lies at r = {r:e} m < 0")]
+    NegativeRadius {
+        /// Node index.
+        node: usize,
+        /// Its radius in m.
+        r: f64,
+    },
+    /// A region tag has no properties.
+    #[error("region tag {tag} is used by the mesh but has no material")]
+    MissingRegion {
+        /// Region tag.
+        tag: u32,
+    },
+    /// A material parameter is out of range.
+    #[error("invalid material: {0}")]
+    BadMaterial(String),
+    /// Nothing is free to solve for.
+    #[error("every node is fixed: nothing to solve")]
+    NoUnknowns,
+    /// The system matrix was not positive definite (should not happen for valid input).
+    #[error("the system matrix is not positive definite ({0})")]
+    NotPositiveDefinite(String),
+    /// The sparse factorisation failed for another reason (memory).
+    #[error("sparse factorisation failed: {0}")]
+    Factorization(String),
+    /// A point or line probe lies outside the mesh.
+    #[error("point (r = {r} m, z = {z} m) lies outside the meshed region")]
+    OutsideMesh {
+        /// Radius in m.
+        r: f64,
+        /// Axial position in m.
+        z: f64,
+    },
+    /// Writing an output file failed.
+    #[error("cannot write {path}: {reason}")]
+    Write {
+        /// File path.
+        path: String,
+        /// What went wrong.
+        reason: String,
+    },
+}

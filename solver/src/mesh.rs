@@ -1,0 +1,65 @@
+//! The triangle mesh as the solver sees it: no knowledge of how it was made.
+
+use crate::SolverError;
+
+/// A point (r, z) in metres.
+pub type Point = [f64; 2];
+
+/// Linear triangles in the (r, z) half-plane with a region tag per triangle.
+#[derive(Debug, Clone, Default)]
+pub struct FeMesh {
+    /// Node coordinates (r, z) in m.
+    pub nodes: Vec<Point>,
+    /// Triangles as node indices, counter-clockwise in (r, z).
+    pub triangles: Vec<[u32; 3]>,
+    /// Region tag of each triangle.
+    pub tags: Vec<u32>,
+}
+
+impl FeMesh {
+    /// Checks indices, orientation and r ≥ 0, so later stages can index without panicking.
+    pub fn validate(&self) -> Result<(), SolverError> {
+        for (i, p) in self.nodes.iter().enumerate() {
+            if !(p[0] >= 0.0) || !p[1].is_finite() || !p[0].is_finite() {
+                return Err(SolverError::NegativeRadius { node: i, r: p[0] });
+            }
+        }
+        for (t, tri) in self.triangles.iter().enumerate() {
+            for &n in tri {
+                if n as usize >= self.nodes.len() {
+                    return Err(SolverError::BadNodeIndex {
+                        triangle: t,
+                        node: n,
+                        nodes: self.nodes.len(),
+                    });
+                }
+            }
+            let area = self.signed_area(t);
+            if !(area > 0.0) {
+                return Err(SolverError::BadTriangle { triangle: t, area });
+            }
+        }
+        Ok(())
+    }
+
+    /// Signed area of triangle `t` in m² (positive when counter-clockwise).
+    pub fn signed_area(&self, t: usize) -> f64 {
+        let [a, b, c] = self.corners(t);
+        0.5 * ((b[0] - a[0]) * (c[1] - a[1]) - (c[0] - a[0]) * (b[1] - a[1]))
+    }
+
+    /// The three corner points of triangle `t`.
+    pub fn corners(&self, t: usize) -> [Point; 3] {
+        let tri = self.triangles[t];
+        [
+            self.nodes[tri[0] as usize],
+            self.nodes[tri[1] as usize],
+            self.nodes[tri[2] as usize],
+        ]
+    }
+
+    /// Largest region tag plus one (length of a per-tag table).
+    pub fn tag_count(&self) -> usize {
+        self.tags.iter().map(|&t| t as usize + 1).max().unwrap_or(0)
+    }
+}

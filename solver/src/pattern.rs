@@ -1,0 +1,83 @@
+//! The sparsity pattern of the reduced system: built once per mesh, values refilled per solve.
+//!
+//! Only the lower triangle (row ≥ column) is stored, in compressed-column form, because the
+//! Cholesky factorisation reads one side. Each element carries the value-array slot of each of
+//! its local (a, b) couplings so assembly is a plain scatter.
+
+use crate::dofs::DofMap;
+
+/// No slot: the coupling involves a fixed node or lies in the upper triangle.
+pub const NO_SLOT: u32 = u32::MAX;
+
+/// Lower-triangular compressed-column pattern with an element scatter map.
+#[derive(Debug, Clone)]
+pub struct Pattern {
+    /// Number of rows and columns.
+    pub n: usize,
+    /// Column pointers (length n + 1).
+    pub col_ptr: Vec<usize>,
+    /// Row indices, sorted within each column.
+    pub row_idx: Vec<usize>,
+    /// For each element, slot of local coupling (a, b) at index 3a + b, or [`NO_SLOT`].
+    pub slots: Vec<[u32; 9]>,
+}
+
+impl Pattern {
+    /// Builds the pattern of the couplings of `triangles` among the free unknowns of `dofs`.
+    pub fn new(triangles: &[[u32; 3]], dofs: &DofMap) -> Self {
+        let n = dofs.n_free;
+        let mut cols: Vec<Vec<usize>> = vec![Vec::new(); n];
+        for tri in triangles {
+            let g = tri.map(|v| dofs.free(v));
+            for a in 0..3 {
+                for b in 0..3 {
+                    if let (Some(i), Some(j)) = (g[a], g[b]) {
+                        if i >= j {
+                            cols[j].push(i);
+                        }
+                    }
+                }
+            }
+        }
+        let mut col_ptr = Vec::with_capacity(n + 1);
+        let mut row_idx = Vec::new();
+        col_ptr.push(0);
+        for c in &mut cols {
+            c.sort_unstable();
+            c.dedup();
+            row_idx.extend_from_slice(c);
+            col_ptr.push(row_idx.len());
+        }
+        let slots = triangles
+            .iter()
+            .map(|tri| {
+                let g = tri.map(|v| dofs.free(v));
+                let mut s = [NO_SLOT; 9];
+                for a in 0..3 {
+                    for b in 0..3 {
+                        if let (Some(i), Some(j)) = (g[a], g[b]) {
+                            if i >= j {
+                                let col = &row_idx[col_ptr[j]..col_ptr[j + 1]];
+                                // present by construction
+                                let k = col.binary_search(&i).unwrap_or(0);
+                                s[3 * a + b] = (col_ptr[j] + k) as u32;
+                            }
+                        }
+                    }
+                }
+                s
+            })
+            .collect();
+        Self {
+            n,
+            col_ptr,
+            row_idx,
+            slots,
+        }
+    }
+
+    /// Number of stored entries.
+    pub fn nnz(&self) -> usize {
+        self.row_idx.len()
+    }
+}

@@ -1,0 +1,18 @@
+//! Stored magnetic energy.
+
+use crate::field::Solution;
+use crate::solve::Model;
+
+/// Field energy W = ∫ (∫_0^B H·dB) dV in J; for linear materials ½ ∫ ν |B|² dV.
+pub fn energy(model: &Model, sol: &Solution) -> f64 {
+    let mut w = 0.0;
+    for (e, g) in model.geometry().iter().enumerate() {
+        let mat = model.material(e);
+        let av = sol.element_values(model, e);
+        for q in &g.qp {
+            let b = g.b_at(av, q);
+            w += mat.energy_density(b[0] * b[0] + b[1] * b[1]) * q.dv;
+        }
+    }
+    w
+}

@@ -1,0 +1,62 @@
+//! What to solve: a mesh, per-region properties and the nodes held by Dirichlet conditions.
+
+use crate::material::Material;
+use crate::mesh::FeMesh;
+use crate::SolverError;
+
+/// Physical properties of one tagged region.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RegionProps {
+    /// Magnetic material.
+    pub material: Material,
+    /// Azimuthal current density J_φ in A/m² (positive along +e_φ).
+    pub current_density: f64,
+}
+
+impl RegionProps {
+    /// Air without current.
+    pub fn air() -> Self {
+        Self {
+            material: Material::AIR,
+            current_density: 0.0,
+        }
+    }
+}
+
+/// A magnetostatic problem: the solve is a pure function of this value.
+#[derive(Debug, Clone)]
+pub struct Problem {
+    /// The mesh.
+    pub mesh: FeMesh,
+    /// Properties indexed by region tag.
+    pub regions: Vec<RegionProps>,
+    /// Dirichlet data: (node, A_φ in Wb/m).
+    pub fixed: Vec<(u32, f64)>,
+}
+
+impl Problem {
+    /// Checks mesh, materials and that every tag used has properties.
+    pub fn validate(&self) -> Result<(), SolverError> {
+        self.mesh.validate()?;
+        if self.mesh.tag_count() > self.regions.len() {
+            let tag = self
+                .mesh
+                .tags
+                .iter()
+                .copied()
+                .find(|&t| t as usize >= self.regions.len())
+                .unwrap_or(0);
+            return Err(SolverError::MissingRegion { tag });
+        }
+        for r in &self.regions {
+            r.material.validate()?;
+            if !r.current_density.is_finite() {
+                return Err(SolverError::BadMaterial(format!(
+                    "current density {} is not finite",
+                    r.current_density
+                )));
+            }
+        }
+        Ok(())
+    }
+}

@@ -1,0 +1,175 @@
+//! The discrete model (mesh, geometry, numbering, pattern, symbolic factorisation) and the
+//! linear solve.
+
+use crate::assembly;
+use crate::cholesky::{SpdFactor, SymbolicSpd};
+use crate::dofs::DofMap;
+use crate::element::ElementGeometry;
+use crate::field::Solution;
+use crate::material::Material;
+use crate::mesh::FeMesh;
+use crate::pattern::Pattern;
+use crate::problem::{Problem, RegionProps};
+use crate::SolverError;
+
+/// Everything about a problem that does not depend on the field values.
+#[derive(Debug)]
+pub struct Model {
+    mesh: FeMesh,
+    geom: Vec<ElementGeometry>,
+    regions: Vec<RegionProps>,
+    dofs: DofMap,
+    pattern: Pattern,
+    symbolic: SymbolicSpd,
+    fixed: Vec<(u32, f64)>,
+}
+
+impl Model {
+    /// Validates the problem and prepares geometry, numbering, pattern and symbolic factor.
+    pub fn new(problem: Problem) -> Result<Self, SolverError> {
+        problem.validate()?;
+        let Problem {
+            mesh,
+            regions,
+            fixed,
+        } = problem;
+        let geom = ElementGeometry::all(&mesh);
+        let fixed_nodes: Vec<u32> = fixed.iter().map(|&(n, _)| n).collect();
+        if let Some(&bad) = fixed_nodes.iter().find(|&&n| n as usize >= mesh.nodes.len()) {
+            return Err(SolverError::BadNodeIndex {
+                triangle: usize::MAX,
+                node: bad,
+                nodes: mesh.nodes.len(),
+            });
+        }
+        let dofs = DofMap::new(mesh.nodes.len(), &fixed_nodes);
+        let pattern = Pattern::new(&mesh.triangles, &dofs);
+        let symbolic = SymbolicSpd::analyse(&pattern)?;
+        Ok(Self {
+            mesh,
+            geom,
+            regions,
+            dofs,
+            pattern,
+            symbolic,
+            fixed,
+        })
+    }
+
+    /// The mesh.
+    pub fn mesh(&self) -> &FeMesh {
+        &self.mesh
+    }
+
+    /// Per-element geometry, in triangle order.
+    pub fn geometry(&self) -> &[ElementGeometry] {
+        &self.geom
+    }
+
+    /// Unknown numbering.
+    pub fn dofs(&self) -> &DofMap {
+        &self.dofs
+    }
+
+    /// Properties of region `tag`.
+    pub fn region(&self, tag: u32) -> &RegionProps {
+        &self.regions[tag as usize]
+    }
+
+    /// Material of element `e`.
+    #[inline]
+    pub fn material(&self, e: usize) -> &Material {
+        &self.regions[self.mesh.tags[e] as usize].material
+    }
+
+    /// Current density of element `e` in A/m² under the problem's own excitation.
+    #[inline]
+    pub fn current_density(&self, e: usize) -> f64 {
+        self.regions[self.mesh.tags[e] as usize].current_density
+    }
+
+    /// Number of free unknowns.
+    pub fn unknowns(&self) -> usize {
+        self.dofs.n_free
+    }
+
+    /// Stored nonzeros of the lower triangle.
+    pub fn nonzeros(&self) -> usize {
+        self.pattern.nnz()
+    }
+
+    /// The problem's Dirichlet values as a per-node vector (0 where free).
+    pub fn fixed_values(&self) -> Vec<f64> {
+        let mut a = vec![0.0; self.mesh.nodes.len()];
+        for &(n, v) in &self.fixed {
+            a[n as usize] = v;
+        }
+        a
+    }
+
+    /// Per-element current density of the problem's excitation.
+    pub fn problem_currents(&self) -> Vec<f64> {
+        (0..self.mesh.triangles.len())
+            .map(|e| self.current_density(e))
+            .collect()
+    }
+
+    /// Assembles and factorises the linear operator (materials must all be linear).
+    pub fn linear_operator(&self) -> Result<LinearOperator<'_>, SolverError> {
+        if let Some(r) = self.regions.iter().find(|r| !r.material.is_linear()) {
+            return Err(SolverError::BadMaterial(format!(
+                "a linear solve was asked for a nonlinear material {:?}",
+                r.material
+            )));
+        }
+        let values = assembly::matrix(&self.geom, &self.pattern, |e, _| self.material(e).nu(0.0));
+        let factor = self.symbolic.factorize(&values)?;
+        Ok(LinearOperator {
+            model: self,
+            factor,
+        })
+    }
+}
+
+/// A factorised linear operator: solves for any excitation on the same model.
+#[derive(Debug)]
+pub struct LinearOperator<'m> {
+    model: &'m Model,
+    factor: SpdFactor<'m>,
+}
+
+impl LinearOperator<'_> {
+    /// Solves for per-element current densities `j_elem` (A/m²) and per-node Dirichlet values
+    /// `a_fixed` (Wb/m; read at fixed nodes only).
+    pub fn solve(&self, j_elem: &[f64], a_fixed: &[f64]) -> Solution {
+        let m = self.model;
+        let mut x = assembly::rhs(
+            &m.mesh.triangles,
+            &m.geom,
+            &m.dofs,
+            j_elem,
+            a_fixed,
+            |e, _| m.material(e).nu(0.0),
+        );
+        self.factor.solve_in_place(&mut x);
+        let a = m
+            .dofs
+            .index
+            .iter()
+            .enumerate()
+            .map(|(node, &i)| {
+                if i == crate::dofs::FIXED {
+                    a_fixed[node]
+                } else {
+                    x[i as usize]
+                }
+            })
+            .collect();
+        Solution { a }
+    }
+
+    /// Solves the problem's own excitation (its currents and Dirichlet values).
+    pub fn solve_problem(&self) -> Solution {
+        self.solve(&self.model.problem_currents(), &self.model.fixed_values())
+    }
+}

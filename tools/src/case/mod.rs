@@ -1,0 +1,266 @@
+//! The case file: our own TOML schema, read into typed values in SI units.
+//!
+//! See the README ("Case-file reference") for every key. Parsing is strict: unknown keys,
+//! missing keys, bad units and impossible geometry are reported as one line naming the file,
+//! the key and the fault.
+
+mod materials;
+mod parse;
+mod validate;
+
+pub use materials::{builtin_materials, BuiltinMaterial};
+pub use parse::{parse_case, read_case_file};
+pub use validate::{AUTO_AIR_FACTOR, BALL_FACTOR, MIN_AIR_FACTOR};
+
+use std::fmt;
+
+/// A whole case, SI units.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Case {
+    /// Free text shown in reports.
+    pub title: String,
+    /// The ferromagnetic core, if any.
+    pub core: Option<Core>,
+    /// The windings (may be empty when a background field drives the problem).
+    pub windings: Vec<Winding>,
+    /// Uniform background flux density along +z, in T.
+    pub background_b: f64,
+    /// Radius of the meshed air region (outer sphere), in m; None = automatic.
+    pub air_radius: Option<f64>,
+    /// Mesh controls.
+    pub mesh: MeshControls,
+}
+
+/// The core: shape, axial position of its centre and material.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Core {
+    /// Shape and dimensions.
+    pub shape: CoreShape,
+    /// Axial position of the centre, in m.
+    pub centre: f64,
+    /// Material name as given (or "custom").
+    pub material_name: String,
+    /// Relative permeability.
+    pub mu_r: f64,
+}
+
+/// Core shapes, all dimensions in m.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum CoreShape {
+    /// Solid cylinder.
+    Rod {
+        /// Length along the axis.
+        length: f64,
+        /// Outer diameter.
+        diameter: f64,
+    },
+    /// Hollow cylinder.
+    Tube {
+        /// Length along the axis.
+        length: f64,
+        /// Outer diameter.
+        diameter: f64,
+        /// Inner (bore) diameter.
+        bore: f64,
+    },
+    /// Sphere.
+    Sphere {
+        /// Diameter.
+        diameter: f64,
+    },
+    /// Prolate or oblate spheroid with its symmetry axis on the coil axis.
+    Spheroid {
+        /// Length along the axis (polar diameter).
+        length: f64,
+        /// Equatorial diameter.
+        diameter: f64,
+    },
+}
+
+impl CoreShape {
+    /// Outer radius in m.
+    pub fn radius(&self) -> f64 {
+        match *self {
+            CoreShape::Rod { diameter, .. }
+            | CoreShape::Tube { diameter, .. }
+            | CoreShape::Sphere { diameter }
+            | CoreShape::Spheroid { diameter, .. } => 0.5 * diameter,
+        }
+    }
+
+    /// Half-length along the axis in m.
+    pub fn half_length(&self) -> f64 {
+        match *self {
+            CoreShape::Rod { length, .. }
+            | CoreShape::Tube { length, .. }
+            | CoreShape::Spheroid { length, .. } => 0.5 * length,
+            CoreShape::Sphere { diameter } => 0.5 * diameter,
+        }
+    }
+
+    /// Exact volume in m³.
+    pub fn volume(&self) -> f64 {
+        use std::f64::consts::PI;
+        match *self {
+            CoreShape::Rod { length, diameter } => PI * 0.25 * diameter * diameter * length,
+            CoreShape::Tube {
+                length,
+                diameter,
+                bore,
+            } => PI * 0.25 * (diameter * diameter - bore * bore) * length,
+            CoreShape::Sphere { diameter } => PI * diameter.powi(3) / 6.0,
+            CoreShape::Spheroid { length, diameter } => PI * diameter * diameter * length / 6.0,
+        }
+    }
+
+    /// Name used in the case file.
+    pub fn keyword(&self) -> &'static str {
+        match self {
+            CoreShape::Rod { .. } => "rod",
+            CoreShape::Tube { .. } => "tube",
+            CoreShape::Sphere { .. } => "sphere",
+            CoreShape::Spheroid { .. } => "spheroid",
+        }
+    }
+}
+
+/// A winding of rectangular cross-section with uniform current density.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Winding {
+    /// Label for reports.
+    pub name: String,
+    /// Number of turns.
+    pub turns: f64,
+    /// Current per turn in A (sign gives direction: positive drives +z inside).
+    pub current: f64,
+    /// Inner radius in m.
+    pub inner_radius: f64,
+    /// Outer radius in m.
+    pub outer_radius: f64,
+    /// Axial length in m.
+    pub length: f64,
+    /// Axial position of the centre in m.
+    pub centre: f64,
+}
+
+impl Winding {
+    /// Cross-section area in the (r, z) plane, m².
+    pub fn section_area(&self) -> f64 {
+        (self.outer_radius - self.inner_radius) * self.length
+    }
+
+    /// Uniform azimuthal current density N I / S in A/m².
+    pub fn current_density(&self) -> f64 {
+        self.turns * self.current / self.section_area()
+    }
+
+    /// Dipole moment of the winding alone in air: N I π (a1² + a1 a2 + a2²)/3, in A·m²
+    /// (∫ π r² J dA over the section).
+    pub fn air_moment(&self) -> f64 {
+        let (a1, a2) = (self.inner_radius, self.outer_radius);
+        self.turns * self.current * std::f64::consts::PI * (a1 * a1 + a1 * a2 + a2 * a2) / 3.0
+    }
+}
+
+/// Mesh controls: one knob plus expert overrides (all sizes in m).
+#[derive(Debug, Clone, PartialEq)]
+pub struct MeshControls {
+    /// Overall refinement factor: 2 halves every element size.
+    pub fineness: f64,
+    /// Element size inside the core.
+    pub core_size: Option<f64>,
+    /// Element size inside windings.
+    pub winding_size: Option<f64>,
+    /// Element size at the core's sharp corners.
+    pub corner_size: Option<f64>,
+    /// Largest element size anywhere.
+    pub far_size: Option<f64>,
+    /// Size growth per unit distance from a refined feature.
+    pub grading: Option<f64>,
+    /// Minimum triangle angle in degrees.
+    pub min_angle_deg: f64,
+    /// Relative chord sagitta allowed on curved boundaries.
+    pub arc_tolerance: f64,
+    /// Node cap.
+    pub max_nodes: usize,
+}
+
+impl Default for MeshControls {
+    fn default() -> Self {
+        Self {
+            fineness: 1.0,
+            core_size: None,
+            winding_size: None,
+            corner_size: None,
+            far_size: None,
+            grading: None,
+            min_angle_deg: 25.0,
+            arc_tolerance: 1e-4,
+            max_nodes: 2_000_000,
+        }
+    }
+}
+
+/// A fault in a case file: which file, which key, what is wrong.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum CaseError {
+    /// The file could not be read.
+    #[error("{file}: cannot read: {reason}")]
+    Read {
+        /// File path.
+        file: String,
+        /// OS error text.
+        reason: String,
+    },
+    /// The file is not valid TOML.
+    #[error("{file}: line {line}, column {column}: malformed TOML: {reason}")]
+    Syntax {
+        /// File path.
+        file: String,
+        /// 1-based line.
+        line: usize,
+        /// 1-based column.
+        column: usize,
+        /// Parser message.
+        reason: String,
+    },
+    /// A key is unknown, missing or has a bad value.
+    #[error("{file}: {key}: {fault}")]
+    Key {
+        /// File path.
+        file: String,
+        /// Dotted key path, e.g. `winding[1].current` (windings counted from 1).
+        key: String,
+        /// What is wrong.
+        fault: String,
+    },
+}
+
+impl fmt::Display for CoreShape {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let mm = |x: f64| x * 1e3;
+        match *self {
+            CoreShape::Rod { length, diameter } => {
+                write!(f, "rod, {} mm long, {} mm diameter", mm(length), mm(diameter))
+            }
+            CoreShape::Tube {
+                length,
+                diameter,
+                bore,
+            } => write!(
+                f,
+                "tube, {} mm long, {} mm outer / {} mm bore diameter",
+                mm(length),
+                mm(diameter),
+                mm(bore)
+            ),
+            CoreShape::Sphere { diameter } => write!(f, "sphere, {} mm diameter", mm(diameter)),
+            CoreShape::Spheroid { length, diameter } => write!(
+                f,
+                "spheroid, {} mm long, {} mm equatorial diameter",
+                mm(length),
+                mm(diameter)
+            ),
+        }
+    }
+}

@@ -1,0 +1,364 @@
+//! Reading a case from TOML text with strict key checking and unit-aware values.
+
+use std::path::Path;
+
+use toml::{Table, Value};
+
+use super::materials;
+use super::validate::validate;
+use super::{Case, CaseError, Core, CoreShape, MeshControls, Winding};
+use crate::units::{self, Dimension};
+
+/// Reads and parses a case file.
+pub fn read_case_file(path: &Path) -> Result<Case, CaseError> {
+    let file = path.display().to_string();
+    let text = std::fs::read_to_string(path).map_err(|e| CaseError::Read {
+        file: file.clone(),
+        reason: e.to_string(),
+    })?;
+    parse_case(&text, &file)
+}
+
+/// Parses case text; `file` names it in error messages.
+pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
+    let root: Table = text.parse().map_err(|e: toml::de::Error| {
+        let (line, column) = e
+            .span()
+            .map(|s| line_col(text, s.start))
+            .unwrap_or((1, 1));
+        CaseError::Syntax {
+            file: file.to_string(),
+            line,
+            column,
+            reason: e.message().replace('\n', " "),
+        }
+    })?;
+    let top = Section::new(file, String::new(), &root);
+    top.only(&["title", "core", "winding", "background", "air", "mesh"])?;
+    let title = top.string("title")?.unwrap_or_else(|| "untitled case".into());
+    let core = match top.table("core")? {
+        Some(s) => Some(parse_core(&s)?),
+        None => None,
+    };
+    let mut windings = Vec::new();
+    match root.get("winding") {
+        None => {}
+        Some(Value::Array(items)) => {
+            for (i, item) in items.iter().enumerate() {
+                let key = format!("winding[{}]", i + 1);
+                let Value::Table(t) = item else {
+                    return Err(top.fault(&key, "must be a table ([[winding]])"));
+                };
+                windings.push(parse_winding(&Section::new(file, key, t), i)?);
+            }
+        }
+        Some(Value::Table(t)) => {
+            windings.push(parse_winding(&Section::new(file, "winding[1]".into(), t), 0)?)
+        }
+        Some(_) => return Err(top.fault("winding", "must be a [[winding]] table")),
+    }
+    let background_b = match top.table("background")? {
+        Some(s) => {
+            s.only(&["b_axial"])?;
+            s.quantity("b_axial", Dimension::FluxDensity)?.unwrap_or(0.0)
+        }
+        None => 0.0,
+    };
+    let air_radius = match top.table("air")? {
+        Some(s) => {
+            s.only(&["radius"])?;
+            s.positive("radius", Dimension::Length)?
+        }
+        None => None,
+    };
+    let mesh = match top.table("mesh")? {
+        Some(s) => parse_mesh(&s)?,
+        None => MeshControls::default(),
+    };
+    let case = Case {
+        title,
+        core,
+        windings,
+        background_b,
+        air_radius,
+        mesh,
+    };
+    validate(&case, file)?;
+    Ok(case)
+}
+
+fn parse_core(s: &Section) -> Result<Core, CaseError> {
+    let shape_name = s
+        .string("shape")?
+        .ok_or_else(|| s.fault("shape", "missing (rod, tube, sphere or spheroid)"))?;
+    let common = ["shape", "centre", "material", "mu_r"];
+    let with = |extra: &[&'static str]| -> Vec<&'static str> {
+        common.iter().copied().chain(extra.iter().copied()).collect()
+    };
+    let shape = match shape_name.as_str() {
+        "rod" => {
+            s.only(&with(&["length", "diameter"]))?;
+            CoreShape::Rod {
+                length: s.required_positive("length", Dimension::Length)?,
+                diameter: s.required_positive("diameter", Dimension::Length)?,
+            }
+        }
+        "tube" => {
+            s.only(&with(&["length", "diameter", "bore"]))?;
+            CoreShape::Tube {
+                length: s.required_positive("length", Dimension::Length)?,
+                diameter: s.required_positive("diameter", Dimension::Length)?,
+                bore: s.required_positive("bore", Dimension::Length)?,
+            }
+        }
+        "sphere" => {
+            s.only(&with(&["diameter"]))?;
+            CoreShape::Sphere {
+                diameter: s.required_positive("diameter", Dimension::Length)?,
+            }
+        }
+        "spheroid" => {
+            s.only(&with(&["length", "diameter"]))?;
+            CoreShape::Spheroid {
+                length: s.required_positive("length", Dimension::Length)?,
+                diameter: s.required_positive("diameter", Dimension::Length)?,
+            }
+        }
+        other => {
+            return Err(s.fault(
+                "shape",
+                &format!(
+                    "unknown shape '{other}'{} (rod, tube, sphere or spheroid)",
+                    hint(other, &["rod", "tube", "sphere", "spheroid"])
+                ),
+            ))
+        }
+    };
+    let centre = s.quantity("centre", Dimension::Length)?.unwrap_or(0.0);
+    let (material_name, mu_r) = match (s.string("material")?, s.quantity("mu_r", Dimension::Dimensionless)?) {
+        (Some(_), Some(_)) => {
+            return Err(s.fault("mu_r", "give either material or mu_r, not both"))
+        }
+        (None, None) => return Err(s.fault("material", "missing (a built-in name or mu_r = number)")),
+        (None, Some(mu)) => ("custom".to_string(), mu),
+        (Some(name), None) => match materials::find(&name) {
+            Some(m) => (name, m.mu_r),
+            None => {
+                let names: Vec<&str> = materials::builtin_materials().iter().map(|m| m.name).collect();
+                return Err(s.fault(
+                    "material",
+                    &format!("unknown material '{name}'{}; built-in: {}", hint(&name, &names), names.join(", ")),
+                ));
+            }
+        },
+    };
+    if mu_r < 1.0 {
+        return Err(s.fault(
+            "mu_r",
+            &format!("relative permeability {mu_r} is below 1 (not a ferromagnetic or paramagnetic core)"),
+        ));
+    }
+    Ok(Core {
+        shape,
+        centre,
+        material_name,
+        mu_r,
+    })
+}
+
+fn parse_winding(s: &Section, index: usize) -> Result<Winding, CaseError> {
+    s.only(&[
+        "name",
+        "turns",
+        "current",
+        "inner_radius",
+        "outer_radius",
+        "length",
+        "centre",
+    ])?;
+    let turns = s
+        .quantity("turns", Dimension::Dimensionless)?
+        .ok_or_else(|| s.fault("turns", "missing"))?;
+    if turns <= 0.0 {
+        return Err(s.fault("turns", &format!("{turns} must be positive")));
+    }
+    let inner_radius = s
+        .quantity("inner_radius", Dimension::Length)?
+        .ok_or_else(|| s.fault("inner_radius", "missing"))?;
+    if inner_radius < 0.0 {
+        return Err(s.fault("inner_radius", "must not be negative"));
+    }
+    Ok(Winding {
+        name: s.string("name")?.unwrap_or_else(|| format!("winding {}", index + 1)),
+        turns,
+        current: s
+            .quantity("current", Dimension::Current)?
+            .ok_or_else(|| s.fault("current", "missing"))?,
+        inner_radius,
+        outer_radius: s.required_positive("outer_radius", Dimension::Length)?,
+        length: s.required_positive("length", Dimension::Length)?,
+        centre: s.quantity("centre", Dimension::Length)?.unwrap_or(0.0),
+    })
+}
+
+fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
+    s.only(&[
+        "fineness",
+        "core_size",
+        "winding_size",
+        "corner_size",
+        "far_size",
+        "grading",
+        "min_angle",
+        "arc_tolerance",
+        "max_nodes",
+    ])?;
+    let d = MeshControls::default();
+    let min_angle_deg = s.positive("min_angle", Dimension::Dimensionless)?.unwrap_or(d.min_angle_deg);
+    if min_angle_deg > 30.0 {
+        return Err(s.fault("min_angle", "above 30 degrees refinement may not terminate; use ≤ 30"));
+    }
+    let arc_tolerance = s.positive("arc_tolerance", Dimension::Dimensionless)?.unwrap_or(d.arc_tolerance);
+    if arc_tolerance > 0.05 {
+        return Err(s.fault("arc_tolerance", "must be ≤ 0.05 (relative chord sagitta)"));
+    }
+    let fineness = s.positive("fineness", Dimension::Dimensionless)?.unwrap_or(1.0);
+    if fineness > 50.0 {
+        return Err(s.fault("fineness", "must be ≤ 50"));
+    }
+    let grading = s.positive("grading", Dimension::Dimensionless)?;
+    if grading.is_some_and(|g| g > 2.0) {
+        return Err(s.fault("grading", "must be ≤ 2"));
+    }
+    let max_nodes = match s.positive("max_nodes", Dimension::Dimensionless)? {
+        Some(n) if n < 100.0 => return Err(s.fault("max_nodes", "must be at least 100")),
+        Some(n) => n as usize,
+        None => d.max_nodes,
+    };
+    Ok(MeshControls {
+        fineness,
+        core_size: s.positive("core_size", Dimension::Length)?,
+        winding_size: s.positive("winding_size", Dimension::Length)?,
+        corner_size: s.positive("corner_size", Dimension::Length)?,
+        far_size: s.positive("far_size", Dimension::Length)?,
+        grading,
+        min_angle_deg,
+        arc_tolerance,
+        max_nodes,
+    })
+}
+
+/// A table being read, with its key path for messages.
+struct Section<'a> {
+    file: &'a str,
+    path: String,
+    table: &'a Table,
+}
+
+impl<'a> Section<'a> {
+    fn new(file: &'a str, path: String, table: &'a Table) -> Self {
+        Self { file, path, table }
+    }
+
+    fn key_path(&self, key: &str) -> String {
+        if self.path.is_empty() {
+            key.to_string()
+        } else {
+            format!("{}.{key}", self.path)
+        }
+    }
+
+    fn fault(&self, key: &str, fault: &str) -> CaseError {
+        CaseError::Key {
+            file: self.file.to_string(),
+            key: self.key_path(key),
+            fault: fault.to_string(),
+        }
+    }
+
+    /// Rejects keys not in `known`, suggesting the nearest known key.
+    fn only(&self, known: &[&str]) -> Result<(), CaseError> {
+        for k in self.table.keys() {
+            if !known.contains(&k.as_str()) {
+                return Err(self.fault(k, &format!("unknown key{}", hint(k, known))));
+            }
+        }
+        Ok(())
+    }
+
+    fn table(&self, key: &str) -> Result<Option<Section<'a>>, CaseError> {
+        match self.table.get(key) {
+            None => Ok(None),
+            Some(Value::Table(t)) => Ok(Some(Section::new(self.file, self.key_path(key), t))),
+            Some(_) => Err(self.fault(key, "must be a table")),
+        }
+    }
+
+    fn string(&self, key: &str) -> Result<Option<String>, CaseError> {
+        match self.table.get(key) {
+            None => Ok(None),
+            Some(Value::String(s)) => Ok(Some(s.clone())),
+            Some(_) => Err(self.fault(key, "must be a string")),
+        }
+    }
+
+    /// A number (SI) or a string with a unit of dimension `dim`.
+    fn quantity(&self, key: &str, dim: Dimension) -> Result<Option<f64>, CaseError> {
+        let v = match self.table.get(key) {
+            None => return Ok(None),
+            Some(Value::Integer(i)) => *i as f64,
+            Some(Value::Float(f)) => *f,
+            Some(Value::String(s)) => units::parse(s, dim).map_err(|e| self.fault(key, &e))?,
+            Some(_) => return Err(self.fault(key, &format!("must be {dim}"))),
+        };
+        if !v.is_finite() {
+            return Err(self.fault(key, "must be finite"));
+        }
+        Ok(Some(v))
+    }
+
+    fn positive(&self, key: &str, dim: Dimension) -> Result<Option<f64>, CaseError> {
+        match self.quantity(key, dim)? {
+            Some(v) if v <= 0.0 => Err(self.fault(key, &format!("{v} must be positive"))),
+            other => Ok(other),
+        }
+    }
+
+    fn required_positive(&self, key: &str, dim: Dimension) -> Result<f64, CaseError> {
+        self.positive(key, dim)?
+            .ok_or_else(|| self.fault(key, &format!("missing ({dim})")))
+    }
+}
+
+/// " (did you mean 'x'?)" when a known word is within a small edit distance.
+pub(crate) fn hint(word: &str, known: &[&str]) -> String {
+    known
+        .iter()
+        .map(|k| (edit_distance(word, k), *k))
+        .filter(|&(d, k)| d <= 2.max(k.len() / 3))
+        .min()
+        .map(|(_, k)| format!(" (did you mean '{k}'?)"))
+        .unwrap_or_default()
+}
+
+fn edit_distance(a: &str, b: &str) -> usize {
+    let a: Vec<char> = a.chars().collect();
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    for i in 1..=a.len() {
+        let mut cur = vec![i; b.len() + 1];
+        for j in 1..=b.len() {
+            let sub = prev[j - 1] + usize::from(a[i - 1] != b[j - 1]);
+            cur[j] = sub.min(prev[j] + 1).min(cur[j - 1] + 1);
+        }
+        prev = cur;
+    }
+    prev[b.len()]
+}
+
+fn line_col(text: &str, offset: usize) -> (usize, usize) {
+    let before = &text[..offset.min(text.len())];
+    let line = before.matches('\n').count() + 1;
+    let column = before.len() - before.rfind('\n').map_or(0, |i| i + 1) + 1;
+    (line, column)
+}

@@ -1,0 +1,132 @@
+//! From a case to the mesher's description: region shapes, tags and graded sizes.
+//!
+//! Region tags: 0 air, 1 core, 2 + k for winding k (counted from 0).
+
+use axicore_mesher::{MeshSpec, Point, Refinement, Region, Shape};
+
+use crate::case::{Case, CoreShape};
+use crate::case::BALL_FACTOR;
+
+/// Tag of the air region.
+pub const AIR_TAG: u32 = 0;
+/// Tag of the core.
+pub const CORE_TAG: u32 = 1;
+/// Tag of winding `k` (from 0).
+pub fn winding_tag(k: usize) -> u32 {
+    2 + k as u32
+}
+
+/// Radius of the ball used for the field-route dipole check, in m.
+pub fn ball_radius(case: &Case) -> f64 {
+    BALL_FACTOR * case.source_radius()
+}
+
+/// The core's characteristic thickness (radius, wall or equatorial radius) in m.
+pub fn core_thickness(shape: &CoreShape) -> f64 {
+    match *shape {
+        CoreShape::Rod { diameter, length } => 0.5 * diameter.min(length),
+        CoreShape::Tube {
+            diameter,
+            bore,
+            length,
+        } => (0.5 * (diameter - bore)).min(length),
+        CoreShape::Sphere { diameter } => 0.5 * diameter,
+        CoreShape::Spheroid { diameter, length } => 0.5 * diameter.min(length),
+    }
+}
+
+/// Sharp corners of the core's meridian section (where |B| is singular), in m.
+pub fn core_corners(case: &Case) -> Vec<Point> {
+    let Some(core) = &case.core else {
+        return Vec::new();
+    };
+    let (r, hl, c) = (core.shape.radius(), core.shape.half_length(), core.centre);
+    match core.shape {
+        CoreShape::Rod { .. } => vec![[r, c - hl], [r, c + hl]],
+        CoreShape::Tube { bore, .. } => {
+            let ri = 0.5 * bore;
+            vec![[ri, c - hl], [r, c - hl], [r, c + hl], [ri, c + hl]]
+        }
+        CoreShape::Sphere { .. } | CoreShape::Spheroid { .. } => Vec::new(),
+    }
+}
+
+/// The mesh specification of a case.
+pub fn mesh_spec(case: &Case) -> MeshSpec {
+    let f = case.mesh.fineness;
+    let ro = case.effective_air_radius();
+    let mut spec = MeshSpec::new(ro, AIR_TAG);
+    spec.grading = case.mesh.grading.unwrap_or(0.25 / f.sqrt());
+    spec.min_angle_deg = case.mesh.min_angle_deg;
+    spec.arc_tolerance = case.mesh.arc_tolerance;
+    spec.max_nodes = case.mesh.max_nodes;
+    spec.far_size = case.mesh.far_size.unwrap_or(ro / (6.0 * f));
+    spec.interior_arcs = vec![ball_radius(case)];
+
+    if let Some(core) = &case.core {
+        let t = core_thickness(&core.shape);
+        let size = case.mesh.core_size.unwrap_or(t / (3.0 * f));
+        let (r, hl, c) = (core.shape.radius(), core.shape.half_length(), core.centre);
+        let shape = match core.shape {
+            CoreShape::Rod { .. } => Shape::Rect {
+                r_min: 0.0,
+                r_max: r,
+                z_min: c - hl,
+                z_max: c + hl,
+            },
+            CoreShape::Tube { bore, .. } => Shape::Rect {
+                r_min: 0.5 * bore,
+                r_max: r,
+                z_min: c - hl,
+                z_max: c + hl,
+            },
+            CoreShape::Sphere { .. } | CoreShape::Spheroid { .. } => Shape::HalfEllipse {
+                z_centre: c,
+                radial: r,
+                axial: hl,
+            },
+        };
+        spec.regions.push(Region {
+            tag: CORE_TAG,
+            shape,
+            size,
+        });
+        spec.refinements.push(Refinement::Boundary {
+            region: 0,
+            size: 0.5 * size,
+        });
+        let corner = case.mesh.corner_size.unwrap_or(t / (30.0 * f));
+        for at in core_corners(case) {
+            spec.refinements.push(Refinement::Point { at, size: corner });
+        }
+        if let CoreShape::Spheroid { .. } = core.shape {
+            // The tips of a prolate spheroid have curvature radius r²/hl: resolve it.
+            let tip = (r * r / hl).min(t) / (3.0 * f);
+            for z in [c - hl, c + hl] {
+                spec.refinements.push(Refinement::Point {
+                    at: [0.0, z],
+                    size: tip,
+                });
+            }
+        }
+    }
+    for (k, w) in case.windings.iter().enumerate() {
+        let thick = (w.outer_radius - w.inner_radius).min(w.length);
+        let size = case.mesh.winding_size.unwrap_or(thick / (3.0 * f));
+        spec.regions.push(Region {
+            tag: winding_tag(k),
+            shape: Shape::Rect {
+                r_min: w.inner_radius,
+                r_max: w.outer_radius,
+                z_min: w.centre - 0.5 * w.length,
+                z_max: w.centre + 0.5 * w.length,
+            },
+            size,
+        });
+        spec.refinements.push(Refinement::Boundary {
+            region: spec.regions.len() - 1,
+            size,
+        });
+    }
+    spec
+}

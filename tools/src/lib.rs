@@ -1,0 +1,17 @@
+//! The `axicore` program as a library: case files, the end-to-end pipeline and reports.
+//!
+//! The command-line front end in `main.rs` is a thin layer over [`pipeline::run`].
+#![forbid(unsafe_code)]
+#![warn(missing_docs)]
+
+pub mod case;
+pub mod geometry;
+pub mod output;
+pub mod pipeline;
+pub mod report;
+pub mod units;
+
+/// The built-in example case (also saved as `cases/torquer-rod/case.toml`).
+pub const EXAMPLE_CASE: &str = include_str!("../../cases/torquer-rod/case.toml");
+/// Name under which the built-in example appears in messages.
+pub const EXAMPLE_NAME: &str = "built-in example (cases/torquer-rod/case.toml)";

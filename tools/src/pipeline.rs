@@ -1,0 +1,286 @@
+//! One case, end to end: mesh, solve, post-process. A pure function of the case and options,
+//! so sweeps can run each solve anywhere and get bitwise the same numbers.
+
+use std::time::Instant;
+
+use axicore_mesher::{build_mesh, MeshError, NodeKind};
+use axicore_solver::locate::Locator;
+use axicore_solver::post::{dipole, energy, flux, peak, probe};
+use axicore_solver::{FeMesh, Material, Model, Problem, RegionProps, Solution, SolverError};
+
+use crate::case::Case;
+use crate::geometry::{self, winding_tag, AIR_TAG, CORE_TAG};
+use crate::report::{CoreReport, MeshReport, PointReport, Report, Timings, WindingReport};
+
+/// What to compute beyond the standard report.
+#[derive(Debug, Clone, Default)]
+pub struct RunOptions {
+    /// Points (r, z) in m where B and H are reported.
+    pub points: Vec<[f64; 2]>,
+    /// A line (from, to, samples) to sample into CSV.
+    pub line: Option<([f64; 2], [f64; 2], usize)>,
+    /// Produce the VTK file contents.
+    pub vtk: bool,
+}
+
+/// Everything a run produces.
+#[derive(Debug)]
+pub struct Outcome {
+    /// Numbers for the summary and JSON.
+    pub report: Report,
+    /// CSV text of the line samples, if asked.
+    pub line_csv: Option<String>,
+    /// VTK (.vtu) bytes, if asked.
+    pub vtk: Option<Vec<u8>>,
+}
+
+/// Why a run failed after the case was accepted.
+#[derive(Debug, thiserror::Error)]
+pub enum RunError {
+    /// Meshing failed.
+    #[error("meshing failed: {0}")]
+    Mesh(#[from] MeshError),
+    /// The field solve or post-processing failed.
+    #[error("solve failed: {0}")]
+    Solve(#[from] SolverError),
+    /// A probe point or line lies outside the meshed region.
+    #[error("probe: {0}")]
+    Probe(SolverError),
+}
+
+/// The built mesh converted for the solver, with its Dirichlet data.
+pub struct Discretised {
+    /// Mesher output (kept for statistics).
+    pub mesh: axicore_mesher::Mesh,
+    /// The problem handed to the solver.
+    pub problem: Problem,
+}
+
+/// Meshes the case and poses the field problem (no solve).
+pub fn discretise(case: &Case) -> Result<Discretised, RunError> {
+    let spec = geometry::mesh_spec(case);
+    let mesh = build_mesh(&spec)?;
+    let mut regions = vec![RegionProps::air(); 2 + case.windings.len()];
+    if let Some(core) = &case.core {
+        regions[CORE_TAG as usize].material = Material::Linear { mu_r: core.mu_r };
+    }
+    for (k, w) in case.windings.iter().enumerate() {
+        regions[winding_tag(k) as usize].current_density = w.current_density();
+    }
+    // A = 0 on the axis; A = B0 r / 2 (the uniform background field) on the outer arc.
+    let fixed = mesh
+        .nodes
+        .iter()
+        .zip(&mesh.node_kinds)
+        .enumerate()
+        .filter_map(|(i, (p, kind))| match kind {
+            NodeKind::Axis => Some((i as u32, 0.0)),
+            NodeKind::Outer => Some((i as u32, 0.5 * case.background_b * p[0])),
+            NodeKind::Interior => None,
+        })
+        .collect();
+    let problem = Problem {
+        mesh: FeMesh {
+            nodes: mesh.nodes.clone(),
+            triangles: mesh.triangles.clone(),
+            tags: mesh.tags.clone(),
+        },
+        regions,
+        fixed,
+    };
+    Ok(Discretised { mesh, problem })
+}
+
+/// Runs a case.
+pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
+    let t0 = Instant::now();
+    let Discretised { mesh, problem } = discretise(case)?;
+    let stats = mesh.stats();
+    let t_mesh = t0.elapsed().as_secs_f64();
+
+    let t1 = Instant::now();
+    let model = Model::new(problem)?;
+    let op = model.linear_operator()?;
+    let t_factor = t1.elapsed().as_secs_f64();
+
+    let t2 = Instant::now();
+    let j_full = model.problem_currents();
+    let sol = op.solve(&j_full, &model.fixed_values());
+    // One solve per winding alone (no background): inductances and the core gain by
+    // superposition, reusing the factorisation.
+    let n_tri = model.mesh().triangles.len();
+    let zero_fixed = vec![0.0; model.mesh().nodes.len()];
+    let single: Vec<(Vec<f64>, Solution)> = (0..case.windings.len())
+        .map(|k| {
+            let tag = winding_tag(k);
+            let j: Vec<f64> = (0..n_tri)
+                .map(|e| if model.mesh().tags[e] == tag { j_full[e] } else { 0.0 })
+                .collect();
+            let s = op.solve(&j, &zero_fixed);
+            (j, s)
+        })
+        .collect();
+    let t_solve = t2.elapsed().as_secs_f64();
+
+    let t3 = Instant::now();
+    let locator = Locator::new(model.mesh());
+    let parts = dipole::source_moments(&model, &sol, &j_full);
+    let winding_moment: f64 = parts.iter().map(|p| p.current).sum();
+    let core_moment: f64 = parts.iter().map(|p| p.magnetization).sum();
+    let total = winding_moment + core_moment;
+    let ro = case.effective_air_radius();
+    let rb = geometry::ball_radius(case);
+    let ball = dipole::ball_moment(&model, &sol, &locator, rb, case.background_b, Some(ro))?;
+    let difference = if total != 0.0 {
+        (ball - total).abs() / total.abs()
+    } else {
+        (ball - total).abs()
+    };
+
+    // Windings alone: moment with the core (by superposition) over moment in air.
+    let windings_total: f64 = single
+        .iter()
+        .map(|(j, s)| {
+            dipole::source_moments(&model, s, j)
+                .iter()
+                .map(|p| p.current + p.magnetization)
+                .sum::<f64>()
+        })
+        .sum();
+    let apparent_gain = (winding_moment != 0.0).then(|| windings_total / winding_moment);
+
+    let nw = case.windings.len();
+    let mut inductance = vec![vec![0.0; nw]; nw];
+    for (k, (_, s)) in single.iter().enumerate() {
+        for (i, w) in case.windings.iter().enumerate() {
+            let lambda = w.turns / w.section_area()
+                * flux::region_integral_of_a(&model, s, winding_tag(i));
+            inductance[i][k] = lambda / case.windings[k].current;
+        }
+    }
+    let windings: Vec<WindingReport> = case
+        .windings
+        .iter()
+        .enumerate()
+        .map(|(i, w)| WindingReport {
+            name: w.name.clone(),
+            turns: w.turns,
+            current_A: w.current,
+            air_moment_Am2: w.air_moment(),
+            flux_linkage_Wb: w.turns / w.section_area()
+                * flux::region_integral_of_a(&model, &sol, winding_tag(i)),
+            self_inductance_H: if w.current != 0.0 { Some(inductance[i][i]) } else { None },
+        })
+        .collect();
+    let inductance_matrix = if case.windings.iter().all(|w| w.current != 0.0) {
+        Some(inductance)
+    } else {
+        None
+    };
+
+    let b_origin = sol.b_at_point(&model, &locator, [0.0, 0.0])?.2[1];
+    let core = case.core.as_ref().map(|c| {
+        let corners = geometry::core_corners(case);
+        let exclusion = 0.1 * geometry::core_thickness(&c.shape);
+        let pk = peak::peak_b(&model, &sol, CORE_TAG, &corners, exclusion);
+        let centre_r = match c.shape {
+            crate::case::CoreShape::Tube { bore, diameter, .. } => 0.25 * (bore + diameter),
+            _ => 0.0,
+        };
+        let centre = sol
+            .b_at_point(&model, &locator, [centre_r, c.centre])
+            .map(|(_, _, b)| b)
+            .unwrap_or([f64::NAN; 2]);
+        CoreReport {
+            shape: c.shape.to_string(),
+            material: c.material_name.clone(),
+            mu_r: c.mu_r,
+            volume_m3: flux::region_volume(&model, CORE_TAG),
+            exact_volume_m3: c.shape.volume(),
+            b_centre_T: centre[0].hypot(centre[1]),
+            b_centre_at_m: [centre_r, c.centre],
+            max_b_T: pk.map(|p| p.b),
+            max_b_at_m: pk.map(|p| p.at),
+            max_b_corner_exclusion_m: exclusion,
+        }
+    });
+    let points = opts
+        .points
+        .iter()
+        .map(|&p| {
+            sol.at_point(&model, &locator, p)
+                .map(PointReport::from)
+                .map_err(RunError::Probe)
+        })
+        .collect::<Result<Vec<_>, _>>()?;
+    let line_csv = match opts.line {
+        Some((from, to, n)) => {
+            let samples = probe::sample_line(&model, &sol, &locator, from, to, n)
+                .map_err(RunError::Probe)?;
+            Some(crate::report::line_csv(&samples))
+        }
+        None => None,
+    };
+    let vtk = if opts.vtk {
+        let (pa, ca, region) = axicore_solver::export::vtk::field_arrays(&model, &sol);
+        Some(axicore_solver::export::vtk::vtu_bytes(
+            model.mesh(),
+            &pa,
+            &ca,
+            &region,
+        )?)
+    } else {
+        None
+    };
+    let w_energy = energy::energy(&model, &sol);
+    let t_post = t3.elapsed().as_secs_f64();
+
+    let per_tag = |tag: u32| {
+        stats
+            .triangles_per_tag
+            .iter()
+            .find(|(t, _)| *t == tag)
+            .map_or(0, |(_, n)| *n)
+    };
+    let report = Report {
+        title: case.title.clone(),
+        dipole_moment_Am2: total,
+        core_dipole_moment_Am2: core_moment,
+        winding_dipole_moment_Am2: winding_moment,
+        dipole_check_Am2: ball,
+        dipole_estimator_difference: difference,
+        apparent_gain,
+        b_origin_T: b_origin,
+        inductance_H: windings.first().and_then(|w| w.self_inductance_H),
+        inductance_matrix_H: inductance_matrix,
+        energy_J: w_energy,
+        max_core_b_T: core.as_ref().and_then(|c| c.max_b_T),
+        background_b_T: case.background_b,
+        air_radius_m: ro,
+        ball_radius_m: rb,
+        nodes: stats.nodes,
+        triangles: stats.triangles,
+        unknowns: model.unknowns(),
+        mesh: MeshReport {
+            triangles_air: per_tag(AIR_TAG),
+            triangles_core: per_tag(CORE_TAG),
+            triangles_windings: (0..nw).map(|k| per_tag(winding_tag(k))).collect(),
+            min_angle_deg: stats.min_angle_deg,
+            max_aspect_ratio: stats.max_aspect_ratio,
+        },
+        core,
+        windings,
+        points,
+        timings_s: Timings {
+            mesh: t_mesh,
+            assemble_factor: t_factor,
+            solve: t_solve,
+            post: t_post,
+        },
+    };
+    Ok(Outcome {
+        report,
+        line_csv,
+        vtk,
+    })
+}

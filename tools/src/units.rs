@@ -1,0 +1,168 @@
+//! Physical quantities with units at the boundary: "70 mm", "50 mA", "1 mT", "2.5e-3 m".
+//!
+//! A bare number is read in SI base units. A string is a number, optional spaces and a unit
+//! symbol made of an optional SI prefix and a base symbol of the expected dimension.
+
+use std::fmt;
+
+/// The physical dimension a key expects.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Dimension {
+    /// Metres.
+    Length,
+    /// Amperes.
+    Current,
+    /// Teslas.
+    FluxDensity,
+    /// Amperes per metre.
+    FieldStrength,
+    /// No unit.
+    Dimensionless,
+}
+
+impl fmt::Display for Dimension {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(match self {
+            Dimension::Length => "a length (m)",
+            Dimension::Current => "a current (A)",
+            Dimension::FluxDensity => "a flux density (T)",
+            Dimension::FieldStrength => "a field strength (A/m)",
+            Dimension::Dimensionless => "a plain number",
+        })
+    }
+}
+
+/// SI prefixes accepted in front of a base symbol.
+const PREFIXES: [(&str, f64); 8] = [
+    ("n", 1e-9),
+    ("u", 1e-6),
+    ("µ", 1e-6),
+    ("μ", 1e-6),
+    ("m", 1e-3),
+    ("c", 1e-2),
+    ("k", 1e3),
+    ("M", 1e6),
+];
+
+/// Base symbols per dimension, with their factor to SI.
+fn bases(dim: Dimension) -> &'static [(&'static str, f64)] {
+    match dim {
+        Dimension::Length => &[("m", 1.0)],
+        Dimension::Current => &[("A", 1.0)],
+        // gauss is CGS but still printed on many sensor data sheets; 1 G = 1e-4 T exactly.
+        Dimension::FluxDensity => &[("T", 1.0), ("G", 1e-4)],
+        Dimension::FieldStrength => &[("A/m", 1.0)],
+        Dimension::Dimensionless => &[],
+    }
+}
+
+/// Which dimension a unit symbol belongs to, if any (for "wrong dimension" messages).
+fn dimension_of(unit: &str) -> Option<Dimension> {
+    [
+        Dimension::FieldStrength,
+        Dimension::Length,
+        Dimension::Current,
+        Dimension::FluxDensity,
+    ]
+    .into_iter()
+    .find(|&d| factor(unit, d).is_some())
+}
+
+/// SI factor of `unit` for dimension `dim`, if it is a valid symbol of that dimension.
+fn factor(unit: &str, dim: Dimension) -> Option<f64> {
+    for &(base, f) in bases(dim) {
+        if unit == base {
+            return Some(f);
+        }
+        if let Some(prefix) = unit.strip_suffix(base) {
+            // "cm" is fine, "cA" or "cT" are not in use: allow centi for lengths only.
+            if prefix == "c" && dim != Dimension::Length {
+                continue;
+            }
+            if let Some(&(_, p)) = PREFIXES.iter().find(|(s, _)| *s == prefix) {
+                return Some(p * f);
+            }
+        }
+    }
+    None
+}
+
+/// Parses a quantity string of dimension `dim` into SI. Errors are short phrases for messages.
+pub fn parse(text: &str, dim: Dimension) -> Result<f64, String> {
+    let s = text.trim();
+    let split = s
+        .char_indices()
+        .find(|&(i, c)| {
+            c.is_alphabetic() && !((c == 'e' || c == 'E') && looks_like_exponent(s, i))
+                || c == 'µ'
+                || c == 'μ'
+        })
+        .map_or(s.len(), |(i, _)| i);
+    let (num, unit) = (s[..split].trim(), s[split..].trim());
+    let value: f64 = num
+        .parse()
+        .map_err(|_| format!("'{text}' is not a number followed by a unit"))?;
+    if !value.is_finite() {
+        return Err(format!("'{text}' is not finite"));
+    }
+    if unit.is_empty() {
+        return Ok(value);
+    }
+    if dim == Dimension::Dimensionless {
+        return Err(format!("'{text}' has a unit, but a plain number is expected"));
+    }
+    match factor(unit, dim) {
+        Some(f) => Ok(value * f),
+        None => match dimension_of(unit) {
+            Some(other) => Err(format!(
+                "unit '{unit}' is {other}, but {dim} is expected"
+            )),
+            None => Err(format!("unknown unit '{unit}' (expected {dim})")),
+        },
+    }
+}
+
+/// True if the 'e' at byte `i` is an exponent marker (digit before, digit or sign after).
+fn looks_like_exponent(s: &str, i: usize) -> bool {
+    let before = s[..i].chars().last().is_some_and(|c| c.is_ascii_digit() || c == '.');
+    let after = s[i + 1..]
+        .chars()
+        .next()
+        .is_some_and(|c| c.is_ascii_digit() || c == '-' || c == '+');
+    before && after
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn lengths_with_prefixes_and_exponents() {
+        assert_eq!(parse("70 mm", Dimension::Length).unwrap(), 0.07);
+        assert_eq!(parse("2.5e-3 m", Dimension::Length).unwrap(), 2.5e-3);
+        assert_eq!(parse("2.5e-3m", Dimension::Length).unwrap(), 2.5e-3);
+        assert!((parse("12cm", Dimension::Length).unwrap() - 0.12).abs() < 1e-15);
+        assert!((parse("3 µm", Dimension::Length).unwrap() - 3e-6).abs() < 1e-20);
+        assert_eq!(parse("0.5", Dimension::Length).unwrap(), 0.5);
+    }
+
+    #[test]
+    fn currents_and_flux_densities() {
+        assert!((parse("50 mA", Dimension::Current).unwrap() - 0.05).abs() < 1e-15);
+        assert!((parse("1 mT", Dimension::FluxDensity).unwrap() - 1e-3).abs() < 1e-18);
+        assert!((parse("30 uT", Dimension::FluxDensity).unwrap() - 3e-5).abs() < 1e-18);
+        assert!((parse("0.5 G", Dimension::FluxDensity).unwrap() - 5e-5).abs() < 1e-18);
+        assert!((parse("2 kA/m", Dimension::FieldStrength).unwrap() - 2e3).abs() < 1e-9);
+    }
+
+    #[test]
+    fn wrong_dimension_and_unknown_units_are_named() {
+        let e = parse("1 mT", Dimension::Current).unwrap_err();
+        assert!(e.contains("flux density") && e.contains("current"), "{e}");
+        let e = parse("3 furlong", Dimension::Length).unwrap_err();
+        assert!(e.contains("unknown unit 'furlong'"), "{e}");
+        assert!(parse("abc", Dimension::Length).is_err());
+        assert!(parse("inf m", Dimension::Length).is_err());
+        assert!(parse("5 cA", Dimension::Current).is_err());
+    }
+}
