@@ -41,6 +41,15 @@ pub enum MeshError {
         /// Index into `MeshSpec::regions`.
         region: usize,
     },
+    /// Two outline segments meet at a vertex at an angle below `MIN_INPUT_ANGLE_DEG` (a cusp, such as
+    /// a rectangle resting on the tip of a half-ellipse with a fine arc tolerance).
+    #[error("outlines meet at ({}, {}) m at {angle_deg:.2e}°, below the smallest input angle", at[0], at[1])]
+    SmallInputAngle {
+        /// The vertex (r, z) in m.
+        at: [f64; 2],
+        /// The angle between the two segments (degrees).
+        angle_deg: f64,
+    },
     /// A boundary refinement names a region that does not exist.
     #[error("refinement {refinement} names region {region}, but there are only {regions} regions")]
     NoSuchRegion {

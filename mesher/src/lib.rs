@@ -26,6 +26,7 @@ mod validate;
 
 pub use error::MeshError;
 pub use mesh::{aspect_ratio, signed_area, triangle_angles, Mesh, MeshStats, NodeKind};
+pub use pslg::MIN_INPUT_ANGLE_DEG;
 pub use refine::MAX_SIZE_PASSES;
 pub use spec::{MeshSpec, Point, Refinement, Region, Shape};
 pub use validate::{MAX_MIN_ANGLE_DEG, OUTER_ARC_TOLERANCE};

@@ -57,14 +57,27 @@ impl Solution {
         Ok((e, a, [-da_dz, da_dr + a_over_r]))
     }
 
-    /// A, B, H and μr at point `p`.
+    /// Recovered B at point `p` (patch fit, see [`crate::recover`]), falling back to the
+    /// element value where the patch is too small; with A and the evaluating element.
+    pub fn b_recovered(
+        &self,
+        model: &Model,
+        locator: &Locator,
+        p: Point,
+    ) -> Result<(usize, f64, [f64; 2]), SolverError> {
+        let (e, a, b) = self.b_at_point(model, locator, p)?;
+        let b = locator.patches().b_at(model, self, e, p).unwrap_or(b);
+        Ok((e, a, b))
+    }
+
+    /// A, recovered B, H and μr at point `p`.
     pub fn at_point(
         &self,
         model: &Model,
         locator: &Locator,
         p: Point,
     ) -> Result<PointField, SolverError> {
-        let (e, a, b) = self.b_at_point(model, locator, p)?;
+        let (e, a, b) = self.b_recovered(model, locator, p)?;
         let nu = model.material(e).nu(b[0] * b[0] + b[1] * b[1]);
         Ok(PointField {
             at: p,

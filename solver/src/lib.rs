@@ -26,7 +26,7 @@
 //! - [`dofs`], [`pattern`], [`weak_form`], [`assembly`]: from mesh to sparse system.
 //! - [`cholesky`]: the sparse direct solve (faer).
 //! - [`problem`], [`solve`]: what to solve and the solve itself.
-//! - [`field`], [`locate`]: the solved field and evaluation at points.
+//! - [`field`], [`locate`], [`recover`]: the solved field, evaluation at points, patch recovery.
 //! - [`post`]: dipole moment, energy, flux linkage, probes, core peak field.
 //! - [`export`]: VTK output.
 #![forbid(unsafe_code)]
@@ -46,6 +46,7 @@ pub mod pattern;
 pub mod post;
 pub mod problem;
 pub mod quadrature;
+pub mod recover;
 pub mod solve;
 pub mod weak_form;
 

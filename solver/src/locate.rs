@@ -6,6 +6,7 @@ use crate::mesh::{FeMesh, Point};
 /// boxes overlap it, in triangle order (so the answer is deterministic).
 #[derive(Debug, Clone)]
 pub struct Locator {
+    patches: crate::recover::Patches,
     origin: Point,
     cell: [f64; 2],
     dims: [usize; 2],
@@ -70,12 +71,18 @@ impl Locator {
             }
         }
         Self {
+            patches: crate::recover::Patches::new(mesh),
             origin: lo,
             cell,
             dims: [nx, ny],
             start: count,
             items,
         }
+    }
+
+    /// Node → element adjacency used for recovered point values.
+    pub fn patches(&self) -> &crate::recover::Patches {
+        &self.patches
     }
 
     /// All triangles containing `p` (edges and corners included) with its barycentric coordinates.

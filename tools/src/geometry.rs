@@ -56,7 +56,7 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
     let f = case.mesh.fineness;
     let ro = case.effective_air_radius();
     let mut spec = MeshSpec::new(ro, AIR_TAG);
-    spec.grading = case.mesh.grading.unwrap_or(0.25 / f.sqrt());
+    spec.grading = case.mesh.grading.unwrap_or(0.15 / f);
     spec.min_angle_deg = case.mesh.min_angle_deg;
     spec.arc_tolerance = case.mesh.arc_tolerance;
     spec.max_nodes = case.mesh.max_nodes;

@@ -178,7 +178,7 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         None
     };
 
-    let b_origin = sol.b_at_point(&model, &locator, [0.0, 0.0])?.2[1];
+    let b_origin = sol.b_recovered(&model, &locator, [0.0, 0.0])?.2[1];
     let core = case.core.as_ref().map(|c| {
         let corners = geometry::core_corners(case);
         let exclusion = 0.1 * geometry::core_thickness(&c.shape);
@@ -188,7 +188,7 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
             _ => 0.0,
         };
         let centre = sol
-            .b_at_point(&model, &locator, [centre_r, c.centre])
+            .b_recovered(&model, &locator, [centre_r, c.centre])
             .map(|(_, _, b)| b)
             .unwrap_or([f64::NAN; 2]);
         CoreReport {
