@@ -32,9 +32,21 @@ fn air_core_dipole_matches_the_section_integral_by_both_estimators() {
     // references.md §7 check #5
     assert!(rel(exact, 0.7330383) < 1e-6);
     let r = &out.report;
-    assert!(rel(r.winding_dipole_moment_Am2, exact) < 1e-9, "{}", r.winding_dipole_moment_Am2);
-    assert!(rel(r.dipole_moment_Am2, exact) < 3e-3, "source route {}", r.dipole_moment_Am2);
-    assert!(rel(r.dipole_check_Am2, exact) < 3e-3, "field route {} vs {exact}", r.dipole_check_Am2);
+    assert!(
+        rel(r.winding_dipole_moment_Am2, exact) < 1e-9,
+        "{}",
+        r.winding_dipole_moment_Am2
+    );
+    assert!(
+        rel(r.dipole_moment_Am2, exact) < 3e-3,
+        "source route {}",
+        r.dipole_moment_Am2
+    );
+    assert!(
+        rel(r.dipole_check_Am2, exact) < 3e-3,
+        "field route {} vs {exact}",
+        r.dipole_check_Am2
+    );
     assert_eq!(r.apparent_gain, Some(1.0));
 }
 
@@ -60,5 +72,9 @@ fn axial_field_inside_the_winding_matches_montgomery() {
     }
     assert!(worst < 5e-3, "worst relative error {worst}");
     // Centre value, references.md §7 check #4: 1.2022574e-2 T.
-    assert!(rel(out.report.b_origin_T, 1.2022574e-2) < 5e-3, "{}", out.report.b_origin_T);
+    assert!(
+        rel(out.report.b_origin_T, 1.2022574e-2) < 5e-3,
+        "{}",
+        out.report.b_origin_T
+    );
 }

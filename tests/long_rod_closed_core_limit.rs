@@ -34,9 +34,15 @@ length = "400 mm"
     let n_per_m = 4000.0 / 0.400;
     let want = 300.0 * reference::MU0 * reference::long_solenoid_h(n_per_m, 0.010);
     let got = out.report.b_origin_T;
-    assert!(rel(got, want) < 2e-2, "B at centre {got} vs μr μ0 n I = {want}");
+    assert!(
+        rel(got, want) < 2e-2,
+        "B at centre {got} vs μr μ0 n I = {want}"
+    );
     // The deficit has the sign and size of the fluxmetric demagnetization.
     let nf = reference::rod_nf_chi0(100.0);
     let with_demag = want / (1.0 + 299.0 * nf);
-    assert!(got < want && rel(got, with_demag) < 1e-2, "{got} vs {with_demag}");
+    assert!(
+        got < want && rel(got, with_demag) < 1e-2,
+        "{got} vs {with_demag}"
+    );
 }

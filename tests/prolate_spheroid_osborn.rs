@@ -32,6 +32,14 @@ b_axial = "1 mT"
     let h0 = 1e-3 / reference::MU0;
     let want = reference::ellipsoid_dipole(volume, 999.0, n, h0);
     let r = &out.report;
-    assert!(rel(r.dipole_moment_Am2, want) < 1e-2, "source route {} vs {want}", r.dipole_moment_Am2);
-    assert!(rel(r.dipole_check_Am2, want) < 1e-2, "field route {} vs {want}", r.dipole_check_Am2);
+    assert!(
+        rel(r.dipole_moment_Am2, want) < 1e-2,
+        "source route {} vs {want}",
+        r.dipole_moment_Am2
+    );
+    assert!(
+        rel(r.dipole_check_Am2, want) < 1e-2,
+        "field route {} vs {want}",
+        r.dipole_check_Am2
+    );
 }

@@ -33,11 +33,25 @@ b_axial = "1 mT"
     let b_in = reference::sphere_interior_b(mu_r, b0);
     assert!(rel(b_in / b0, 2.994012) < 1e-6);
     for p in &out.report.points {
-        assert!(rel(p.b_z_T, b_in) < 5e-3, "B_z at ({}, {}) = {} vs {b_in}", p.r_m, p.z_m, p.b_z_T);
+        assert!(
+            rel(p.b_z_T, b_in) < 5e-3,
+            "B_z at ({}, {}) = {} vs {b_in}",
+            p.r_m,
+            p.z_m,
+            p.b_z_T
+        );
         assert!(p.b_r_T.abs() < 5e-3 * b_in, "B_r = {}", p.b_r_T);
     }
     let m = reference::sphere_dipole(a, mu_r, b0 / reference::MU0);
     let r = &out.report;
-    assert!(rel(r.dipole_moment_Am2, m) < 5e-3, "source route {} vs {m}", r.dipole_moment_Am2);
-    assert!(rel(r.dipole_check_Am2, m) < 5e-3, "field route {} vs {m}", r.dipole_check_Am2);
+    assert!(
+        rel(r.dipole_moment_Am2, m) < 5e-3,
+        "source route {} vs {m}",
+        r.dipole_moment_Am2
+    );
+    assert!(
+        rel(r.dipole_check_Am2, m) < 5e-3,
+        "field route {} vs {m}",
+        r.dipole_check_Am2
+    );
 }

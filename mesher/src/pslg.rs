@@ -10,9 +10,7 @@
 use std::collections::{BTreeMap, HashMap};
 
 use crate::error::MeshError;
-use crate::shape::{
-    chord_count, half_ellipse_chain, orient, polygon_area, segment_distance, Outline,
-};
+use crate::shape::{half_ellipse_chain_adaptive, orient, polygon_area, segment_distance, Outline};
 use crate::spec::{MeshSpec, Point};
 use crate::validate::OUTER_ARC_TOLERANCE;
 
@@ -105,8 +103,12 @@ pub(crate) fn build(spec: &MeshSpec) -> Result<Pslg, MeshError> {
         .iter()
         .map(|r| Outline::new(&r.shape, spec.arc_tolerance))
         .collect();
-    let n_outer = chord_count(spec.arc_tolerance.max(OUTER_ARC_TOLERANCE)) as usize;
-    let outer = half_ellipse_chain(0.0, radius, radius, n_outer);
+    let outer = half_ellipse_chain_adaptive(
+        0.0,
+        radius,
+        radius,
+        spec.arc_tolerance.max(OUTER_ARC_TOLERANCE),
+    );
 
     for (i, outline) in outlines.iter().enumerate() {
         if !outline
@@ -122,7 +124,7 @@ pub(crate) fn build(spec: &MeshSpec) -> Result<Pslg, MeshError> {
     let arc_chains: Vec<Vec<Point>> = spec
         .interior_arcs
         .iter()
-        .map(|&rho| half_ellipse_chain(0.0, rho, rho, chord_count(spec.arc_tolerance) as usize))
+        .map(|&rho| half_ellipse_chain_adaptive(0.0, rho, rho, spec.arc_tolerance))
         .collect();
     let mut chains: Vec<(Owner, Vec<Point>)> = Vec::new();
     for (i, o) in outlines.iter().enumerate() {

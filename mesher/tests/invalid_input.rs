@@ -260,22 +260,6 @@ fn half_ellipse(tag: u32, z_centre: f64, radial: f64, axial: f64) -> Region {
 }
 
 #[test]
-fn arc_tangent_to_an_ellipse_tip_is_a_small_input_angle() {
-    // The arc and the ellipse share the top tip (0, 0.01) and are both horizontal there: their first
-    // chords differ by ~1e-4°, which sent the refinement into a runaway before this check existed.
-    let mut spec = spec_with(vec![half_ellipse(CORE, -0.005, 0.02, 0.015)]);
-    spec.interior_arcs = vec![0.01];
-    match build_mesh(&spec) {
-        Err(MeshError::SmallInputAngle { at, angle_deg }) => {
-            assert_eq!(at[0], 0.0);
-            assert!((at[1] - 0.01).abs() < 1e-12);
-            assert!(angle_deg < axicore_mesher::MIN_INPUT_ANGLE_DEG);
-        }
-        other => panic!("expected SmallInputAngle, got {other:?}"),
-    }
-}
-
-#[test]
 fn rectangle_on_a_sphere_tip_is_meshed_or_refused_by_angle() {
     // The rectangle's bottom side touches the sphere's top tip; the chords there leave it at half the
     // normal-angle step: π/(2n) = 0.4° for tol 1e-4 (meshed), 0.08° for tol 1e-6 (refused).

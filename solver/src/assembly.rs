@@ -36,13 +36,17 @@ pub fn matrix(
 }
 
 /// Right-hand side over the free unknowns: loads from current densities `j_elem` (A/m² per
-/// element) minus the coupling K_fc·a_c to the fixed nodal values `a_fixed` (per node, Wb/m).
+/// element), minus the coupling K_fc·a_c to the fixed nodal values `a_fixed` (per node, Wb/m),
+/// minus the magnetisation load of the uniform background `b0` (T):
+/// −∫ (ν − ν0) B0 · B(φ_a) dV, non-zero only in magnetic regions.
+#[allow(clippy::too_many_arguments)]
 pub fn rhs(
     triangles: &[[u32; 3]],
     geom: &[ElementGeometry],
     dofs: &DofMap,
     j_elem: &[f64],
     a_fixed: &[f64],
+    b0: f64,
     nu: impl Fn(usize, usize) -> f64 + Sync,
 ) -> Vec<f64> {
     let local: Vec<[f64; 3]> = (0..geom.len())
@@ -51,7 +55,20 @@ pub fn rhs(
             let g = &geom[e];
             let tri = triangles[e];
             let mut f = weak_form::load(g, j_elem[e]);
-            let lifted = tri.iter().any(|&v| dofs.free(v).is_none() && a_fixed[v as usize] != 0.0);
+            if b0 != 0.0 {
+                let nu0 = 1.0 / crate::MU0;
+                for (iq, q) in g.qp.iter().enumerate() {
+                    let dnu = nu(e, iq) - nu0;
+                    if dnu != 0.0 {
+                        for (a, fa) in f.iter_mut().enumerate() {
+                            *fa -= dnu * b0 * g.curl(a, q)[1] * q.dv; // (ν−ν0) B0 B_z(φ_a) dV
+                        }
+                    }
+                }
+            }
+            let lifted = tri
+                .iter()
+                .any(|&v| dofs.free(v).is_none() && a_fixed[v as usize] != 0.0);
             if lifted {
                 let k = weak_form::stiffness(g, |q| nu(e, q));
                 for (a, fa) in f.iter_mut().enumerate() {

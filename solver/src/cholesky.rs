@@ -7,9 +7,7 @@
 
 use faer::dyn_stack::{MemBuffer, MemStack};
 use faer::linalg::cholesky::llt::factor::LltRegularization;
-use faer::sparse::linalg::cholesky::{
-    factorize_symbolic_cholesky, LltRef, SymbolicCholesky,
-};
+use faer::sparse::linalg::cholesky::{factorize_symbolic_cholesky, LltRef, SymbolicCholesky};
 use faer::sparse::{SparseColMatRef, SymbolicSparseColMatRef};
 use faer::{Conj, MatMut, Par, Side};
 
@@ -40,7 +38,8 @@ impl SymbolicSpd {
         }
         let col_ptr = pattern.col_ptr.clone();
         let row_idx = pattern.row_idx.clone();
-        let sym = SymbolicSparseColMatRef::new_checked(pattern.n, pattern.n, &col_ptr, None, &row_idx);
+        let sym =
+            SymbolicSparseColMatRef::new_checked(pattern.n, pattern.n, &col_ptr, None, &row_idx);
         let symbolic =
             factorize_symbolic_cholesky(sym, Side::Lower, Default::default(), Default::default())
                 .map_err(|e| SolverError::Factorization(format!("{e:?}")))?;
@@ -55,7 +54,13 @@ impl SymbolicSpd {
     /// Numeric factorisation of the matrix with this pattern and `values` (lower triangle).
     pub fn factorize(&self, values: &[f64]) -> Result<SpdFactor<'_>, SolverError> {
         let par = Par::Seq;
-        let sym = SymbolicSparseColMatRef::new_checked(self.n, self.n, &self.col_ptr, None, &self.row_idx);
+        let sym = SymbolicSparseColMatRef::new_checked(
+            self.n,
+            self.n,
+            &self.col_ptr,
+            None,
+            &self.row_idx,
+        );
         let a = SparseColMatRef::new(sym, values);
         let mut l_values = vec![0.0f64; self.symbolic.len_val()];
         let mut mem = MemBuffer::try_new(

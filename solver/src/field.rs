@@ -6,11 +6,14 @@ use crate::mesh::Point;
 use crate::solve::Model;
 use crate::{SolverError, MU0};
 
-/// Nodal values of A_φ in Wb/m.
+/// A solved field: A_φ = Σ a_i φ_i + B0 r/2, the discrete reaction field plus the exact
+/// uniform background (reduced-potential split: the background is never discretised).
 #[derive(Debug, Clone, PartialEq)]
 pub struct Solution {
-    /// A_φ at each node.
+    /// Nodal coefficients a_i of the reaction part, in Wb/m.
     pub a: Vec<f64>,
+    /// Uniform background B_z in T.
+    pub b0: f64,
 }
 
 /// The field at one point.
@@ -31,10 +34,41 @@ pub struct PointField {
 }
 
 impl Solution {
-    /// The three nodal values of element `e`.
+    /// The three nodal coefficients (reaction part) of element `e`.
     #[inline]
     pub fn element_values(&self, model: &Model, e: usize) -> [f64; 3] {
         model.mesh().triangles[e].map(|v| self.a[v as usize])
+    }
+
+    /// Total A_φ at every node, Wb/m.
+    pub fn nodal_a(&self, model: &Model) -> Vec<f64> {
+        model
+            .mesh()
+            .nodes
+            .iter()
+            .zip(&self.a)
+            .map(|(p, a)| a + 0.5 * self.b0 * p[0])
+            .collect()
+    }
+
+    /// Total B at quadrature point `q` of element `e`, T.
+    #[inline]
+    pub fn b_q(&self, model: &Model, e: usize, q: &crate::element::QuadPoint) -> [f64; 2] {
+        let b = model.geometry()[e].b_at(self.element_values(model, e), q);
+        [b[0], b[1] + self.b0]
+    }
+
+    /// Total A_φ at quadrature point `q` of element `e`, Wb/m.
+    #[inline]
+    pub fn a_q(&self, model: &Model, e: usize, q: &crate::element::QuadPoint) -> f64 {
+        let g = &model.geometry()[e];
+        g.a_at(self.element_values(model, e), q.n, q.r) + 0.5 * self.b0 * q.r
+    }
+
+    /// Volume-mean total B of element `e`, T.
+    pub fn b_mean(&self, model: &Model, e: usize) -> [f64; 2] {
+        let b = model.geometry()[e].b_mean(self.element_values(model, e));
+        [b[0], b[1] + self.b0]
     }
 
     /// B at point `p` (r, z) in T, with A and the evaluating element.
@@ -49,12 +83,21 @@ impl Solution {
             .ok_or(SolverError::OutsideMesh { r: p[0], z: p[1] })?;
         let g: &ElementGeometry = &model.geometry()[e];
         let av = self.element_values(model, e);
-        let a: f64 = (0..3).map(|i| av[i] * l[i]).sum();
+        if p[0] > 0.0 {
+            let a = g.a_at(av, l, p[0]);
+            let mut b = [0.0; 2];
+            for i in 0..3 {
+                let c = g.curl_at(i, l[i], p[0]);
+                b[0] += av[i] * c[0];
+                b[1] += av[i] * c[1];
+            }
+            return Ok((e, a + 0.5 * self.b0 * p[0], [b[0], b[1] + self.b0]));
+        }
+        // On the axis (elements there use the plain basis) A/r → ∂A/∂r, so B_z = 2 ∂A/∂r.
         let da_dr: f64 = (0..3).map(|i| av[i] * g.dn_dr[i]).sum();
         let da_dz: f64 = (0..3).map(|i| av[i] * g.dn_dz[i]).sum();
-        // On the axis A/r → ∂A/∂r (A vanishes there), so B_z = 2 ∂A/∂r.
-        let a_over_r = if p[0] > 0.0 { a / p[0] } else { da_dr };
-        Ok((e, a, [-da_dz, da_dr + a_over_r]))
+        let (a, a_over_r) = (0.0, da_dr);
+        Ok((e, a, [-da_dz, da_dr + a_over_r + self.b0]))
     }
 
     /// Recovered B at point `p` (patch fit, see [`crate::recover`]), falling back to the
@@ -94,7 +137,7 @@ impl Solution {
         use rayon::prelude::*;
         (0..model.mesh().triangles.len())
             .into_par_iter()
-            .map(|e| model.geometry()[e].b_mean(self.element_values(model, e)))
+            .map(|e| self.b_mean(model, e))
             .collect()
     }
 }

@@ -52,10 +52,10 @@ pub mod weak_form;
 
 pub use error::SolverError;
 pub use field::{PointField, Solution};
-pub use solve::{LinearOperator, Model};
 pub use material::Material;
 pub use mesh::FeMesh;
 pub use problem::{Problem, RegionProps};
+pub use solve::{LinearOperator, Model};
 
 /// Permeability of vacuum μ0 in H/m (the exact pre-2019 SI value 4π·10⁻⁷; the CODATA 2018
 /// value differs by 5.5·10⁻¹⁰ relative, far below any discretisation error here).

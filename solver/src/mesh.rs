@@ -20,7 +20,7 @@ impl FeMesh {
     /// Checks indices, orientation and r ≥ 0, so later stages can index without panicking.
     pub fn validate(&self) -> Result<(), SolverError> {
         for (i, p) in self.nodes.iter().enumerate() {
-            if !(p[0] >= 0.0) || !p[1].is_finite() || !p[0].is_finite() {
+            if p[0].is_nan() || p[0] < 0.0 || !p[1].is_finite() || !p[0].is_finite() {
                 return Err(SolverError::NegativeRadius { node: i, r: p[0] });
             }
         }
@@ -35,7 +35,7 @@ impl FeMesh {
                 }
             }
             let area = self.signed_area(t);
-            if !(area > 0.0) {
+            if area.is_nan() || area <= 0.0 {
                 return Err(SolverError::BadTriangle { triangle: t, area });
             }
         }

@@ -30,8 +30,11 @@ pub struct Problem {
     pub mesh: FeMesh,
     /// Properties indexed by region tag.
     pub regions: Vec<RegionProps>,
-    /// Dirichlet data: (node, A_φ in Wb/m).
+    /// Dirichlet data of the reaction part: (node, A_φ in Wb/m). The background's own
+    /// potential B0 r/2 is added on top, so zero here means A = B0 r/2 there.
     pub fixed: Vec<(u32, f64)>,
+    /// Uniform background flux density along +z, T (enters as the exact field B0 e_z).
+    pub background_b: f64,
 }
 
 impl Problem {
@@ -47,6 +50,12 @@ impl Problem {
                 .find(|&t| t as usize >= self.regions.len())
                 .unwrap_or(0);
             return Err(SolverError::MissingRegion { tag });
+        }
+        if !self.background_b.is_finite() {
+            return Err(SolverError::BadMaterial(format!(
+                "background field {} is not finite",
+                self.background_b
+            )));
         }
         for r in &self.regions {
             r.material.validate()?;

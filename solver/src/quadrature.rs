@@ -24,13 +24,34 @@ pub const DUNAVANT_5: [RulePoint; 7] = {
     const W2: f64 = 0.125_939_180_544_827;
     const T: f64 = 1.0 / 3.0;
     [
-        RulePoint { bary: [T, T, T], weight: W0 },
-        RulePoint { bary: [A1, B1, B1], weight: W1 },
-        RulePoint { bary: [B1, A1, B1], weight: W1 },
-        RulePoint { bary: [B1, B1, A1], weight: W1 },
-        RulePoint { bary: [A2, B2, B2], weight: W2 },
-        RulePoint { bary: [B2, A2, B2], weight: W2 },
-        RulePoint { bary: [B2, B2, A2], weight: W2 },
+        RulePoint {
+            bary: [T, T, T],
+            weight: W0,
+        },
+        RulePoint {
+            bary: [A1, B1, B1],
+            weight: W1,
+        },
+        RulePoint {
+            bary: [B1, A1, B1],
+            weight: W1,
+        },
+        RulePoint {
+            bary: [B1, B1, A1],
+            weight: W1,
+        },
+        RulePoint {
+            bary: [A2, B2, B2],
+            weight: W2,
+        },
+        RulePoint {
+            bary: [B2, A2, B2],
+            weight: W2,
+        },
+        RulePoint {
+            bary: [B2, B2, A2],
+            weight: W2,
+        },
     ]
 };
 

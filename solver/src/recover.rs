@@ -99,7 +99,7 @@ impl Patches {
             for (j, v) in row.into_iter().enumerate() {
                 m[(i, j)] = v;
             }
-            rhs[i] = sol.a[n as usize];
+            rhs[i] = sol.a[n as usize] + 0.5 * sol.b0 * mesh.nodes[n as usize][0];
         }
         let c = m.svd(true, true).solve(&rhs, 1e-12);
         let c = c.ok()?;

@@ -22,6 +22,7 @@ pub struct Model {
     pattern: Pattern,
     symbolic: SymbolicSpd,
     fixed: Vec<(u32, f64)>,
+    background: f64,
 }
 
 impl Model {
@@ -32,10 +33,17 @@ impl Model {
             mesh,
             regions,
             fixed,
+            background_b,
         } = problem;
-        let geom = ElementGeometry::all(&mesh);
+        let magnetic: Vec<bool> = (0..mesh.triangles.len())
+            .map(|e| regions[mesh.tags[e] as usize].material != Material::AIR)
+            .collect();
+        let geom = ElementGeometry::all(&mesh, &flux_nodes(&mesh, &magnetic));
         let fixed_nodes: Vec<u32> = fixed.iter().map(|&(n, _)| n).collect();
-        if let Some(&bad) = fixed_nodes.iter().find(|&&n| n as usize >= mesh.nodes.len()) {
+        if let Some(&bad) = fixed_nodes
+            .iter()
+            .find(|&&n| n as usize >= mesh.nodes.len())
+        {
             return Err(SolverError::BadNodeIndex {
                 triangle: usize::MAX,
                 node: bad,
@@ -53,6 +61,7 @@ impl Model {
             pattern,
             symbolic,
             fixed,
+            background: background_b,
         })
     }
 
@@ -107,6 +116,11 @@ impl Model {
         a
     }
 
+    /// Uniform background B_z of the problem, T.
+    pub fn background(&self) -> f64 {
+        self.background
+    }
+
     /// Per-element current density of the problem's excitation.
     pub fn problem_currents(&self) -> Vec<f64> {
         (0..self.mesh.triangles.len())
@@ -139,9 +153,10 @@ pub struct LinearOperator<'m> {
 }
 
 impl LinearOperator<'_> {
-    /// Solves for per-element current densities `j_elem` (A/m²) and per-node Dirichlet values
-    /// `a_fixed` (Wb/m; read at fixed nodes only).
-    pub fn solve(&self, j_elem: &[f64], a_fixed: &[f64]) -> Solution {
+    /// Solves for per-element current densities `j_elem` (A/m²), per-node Dirichlet values
+    /// `a_fixed` of the reaction part (Wb/m; read at fixed nodes only) and a uniform
+    /// background B_z `b0` (T), which is added exactly, not discretised.
+    pub fn solve(&self, j_elem: &[f64], a_fixed: &[f64], b0: f64) -> Solution {
         let m = self.model;
         let mut x = assembly::rhs(
             &m.mesh.triangles,
@@ -149,6 +164,7 @@ impl LinearOperator<'_> {
             &m.dofs,
             j_elem,
             a_fixed,
+            b0,
             |e, _| m.material(e).nu(0.0),
         );
         self.factor.solve_in_place(&mut x);
@@ -165,11 +181,48 @@ impl LinearOperator<'_> {
                 }
             })
             .collect();
-        Solution { a }
+        Solution { a, b0 }
     }
 
     /// Solves the problem's own excitation (its currents and Dirichlet values).
     pub fn solve_problem(&self) -> Solution {
-        self.solve(&self.model.problem_currents(), &self.model.fixed_values())
+        self.solve(
+            &self.model.problem_currents(),
+            &self.model.fixed_values(),
+            self.model.background,
+        )
     }
+}
+
+/// Nodes that use the flux basis (see [`crate::element::tri3`] for why): every node except
+/// those of elements touching the axis (rA ∝ r² there) and those inside magnetic material
+/// (all of whose elements are magnetic: the field there is nearly uniform, exact in the plain
+/// basis). Nodes on the surface of a magnetic body use the flux basis, so the switch between
+/// the two bases happens one layer inside the body, where the low reluctivity makes its local
+/// error cheap, and never in the air next to it.
+pub fn flux_nodes(mesh: &FeMesh, magnetic: &[bool]) -> Vec<bool> {
+    // Without permeable material there is no A ≈ ψ/r layer to capture, and the plain basis is
+    // more accurate for the near-uniform field inside coil bores.
+    if !magnetic.iter().any(|&m| m) {
+        return vec![false; mesh.nodes.len()];
+    }
+    let mut flux = vec![true; mesh.nodes.len()];
+    let mut all_magnetic = vec![true; mesh.nodes.len()];
+    for (e, tri) in mesh.triangles.iter().enumerate() {
+        let on_axis = tri.iter().any(|&v| mesh.nodes[v as usize][0] == 0.0);
+        for &v in tri {
+            if on_axis {
+                flux[v as usize] = false;
+            }
+            if !magnetic[e] {
+                all_magnetic[v as usize] = false;
+            }
+        }
+    }
+    for (f, m) in flux.iter_mut().zip(&all_magnetic) {
+        if *m {
+            *f = false;
+        }
+    }
+    flux
 }

@@ -1,9 +1,10 @@
 //! Element integrals of the weak form (see the crate documentation):
 //!
 //! ```text
-//!   K_ab = ∫_e ν  B(N_a)·B(N_b) dV          f_a = ∫_e J_φ N_a dV
+//!   K_ab = ∫_e ν  B(φ_a)·B(φ_b) dV          f_a = ∫_e J_φ φ_a dV
 //! ```
-//! with B(N) = (−∂N/∂z, ∂N/∂r + N/r) and dV = 2π r dr dz (inside the quadrature measure).
+//! with B(φ) = (−∂φ/∂z, ∂φ/∂r + φ/r) and dV = 2π r dr dz (inside the quadrature measure); the
+//! basis φ_a is N_a or N_a·r_a/r (see [`crate::element::tri3`]).
 
 use crate::element::ElementGeometry;
 
@@ -13,18 +14,18 @@ pub fn stiffness(g: &ElementGeometry, nu: impl Fn(usize) -> f64) -> [[f64; 3]; 3
     let mut k = [[0.0; 3]; 3];
     for (iq, q) in g.qp.iter().enumerate() {
         let w = nu(iq) * q.dv; // ν(x_q) dV
-        let c = [g.curl(0, q), g.curl(1, q), g.curl(2, q)]; // B(N_a)
+        let c = [g.curl(0, q), g.curl(1, q), g.curl(2, q)]; // B(φ_a)
         for a in 0..3 {
             for b in a..3 {
                 k[a][b] += w * (c[a][0] * c[b][0] + c[a][1] * c[b][1]);
             }
         }
     }
-    for a in 1..3 {
-        for b in 0..a {
-            k[a][b] = k[b][a];
-        }
-    }
+    // Symmetric: mirror the upper triangle.
+    let (k01, k02, k12) = (k[0][1], k[0][2], k[1][2]);
+    k[1][0] = k01;
+    k[2][0] = k02;
+    k[2][1] = k12;
     k
 }
 
@@ -37,7 +38,7 @@ pub fn load(g: &ElementGeometry, j: f64) -> [f64; 3] {
     }
     for q in &g.qp {
         for (a, fa) in f.iter_mut().enumerate() {
-            *fa += j * q.n[a] * q.dv; // J N_a dV
+            *fa += j * g.phi(a, q) * q.dv; // J φ_a dV
         }
     }
     f

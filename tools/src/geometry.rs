@@ -4,8 +4,8 @@
 
 use axicore_mesher::{MeshSpec, Point, Refinement, Region, Shape};
 
-use crate::case::{Case, CoreShape};
 use crate::case::BALL_FACTOR;
+use crate::case::{Case, CoreShape};
 
 /// Tag of the air region.
 pub const AIR_TAG: u32 = 0;
@@ -97,7 +97,8 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
         });
         let corner = case.mesh.corner_size.unwrap_or(t / (30.0 * f));
         for at in core_corners(case) {
-            spec.refinements.push(Refinement::Point { at, size: corner });
+            spec.refinements
+                .push(Refinement::Point { at, size: corner });
         }
         if let CoreShape::Spheroid { .. } = core.shape {
             // The tips of a prolate spheroid have curvature radius r²/hl: resolve it.

@@ -109,7 +109,9 @@ fn parse_point(text: &str, what: &str) -> Result<[f64; 2], Failure> {
     let r = units::parse(r, Dimension::Length).map_err(|e| input_error(format!("{what}: {e}")))?;
     let z = units::parse(z, Dimension::Length).map_err(|e| input_error(format!("{what}: {e}")))?;
     if r < 0.0 {
-        return Err(input_error(format!("{what}: r = {r} m must not be negative")));
+        return Err(input_error(format!(
+            "{what}: r = {r} m must not be negative"
+        )));
     }
     Ok([r, z])
 }
@@ -117,14 +119,20 @@ fn parse_point(text: &str, what: &str) -> Result<[f64; 2], Failure> {
 fn parse_line(text: &str) -> Result<([f64; 2], [f64; 2], usize), Failure> {
     let parts: Vec<&str> = text.split(':').collect();
     let [a, b, n] = parts[..] else {
-        return Err(input_error(format!("--line: '{text}' must be R0,Z0:R1,Z1:N")));
+        return Err(input_error(format!(
+            "--line: '{text}' must be R0,Z0:R1,Z1:N"
+        )));
     };
     let n: usize = n
         .trim()
         .parse()
         .ok()
         .filter(|&n| (2..=1_000_000).contains(&n))
-        .ok_or_else(|| input_error(format!("--line: sample count '{n}' must be an integer from 2 to 1000000")))?;
+        .ok_or_else(|| {
+            input_error(format!(
+                "--line: sample count '{n}' must be an integer from 2 to 1000000"
+            ))
+        })?;
     Ok((parse_point(a, "--line")?, parse_point(b, "--line")?, n))
 }
 
@@ -143,7 +151,10 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
         }
         Command::Mesh { case, vtk } => {
             let case = load(&case)?;
-            let d = discretise(&case).map_err(|e| Failure { code: 1, message: e.to_string() })?;
+            let d = discretise(&case).map_err(|e| Failure {
+                code: 1,
+                message: e.to_string(),
+            })?;
             let st = d.mesh.stats();
             println!("{}", case.title);
             println!("nodes          {}", st.nodes);
@@ -160,9 +171,16 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             println!("worst aspect   {:.3}", st.max_aspect_ratio);
             if let Some(path) = vtk {
                 let region: Vec<i32> = d.problem.mesh.tags.iter().map(|&t| t as i32).collect();
-                let bytes = axicore_solver::export::vtk::vtu_bytes(&d.problem.mesh, &[], &[], &region)
-                    .map_err(|e| Failure { code: 1, message: e.to_string() })?;
-                output::write_all(&[(path, bytes)]).map_err(|m| Failure { code: 1, message: m })?;
+                let bytes =
+                    axicore_solver::export::vtk::vtu_bytes(&d.problem.mesh, &[], &[], &region)
+                        .map_err(|e| Failure {
+                            code: 1,
+                            message: e.to_string(),
+                        })?;
+                output::write_all(&[(path, bytes)]).map_err(|m| Failure {
+                    code: 1,
+                    message: m,
+                })?;
             }
             Ok(())
         }
@@ -193,7 +211,10 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                 Some(n) => rayon::ThreadPoolBuilder::new()
                     .num_threads(n)
                     .build()
-                    .map_err(|e| Failure { code: 1, message: e.to_string() })?
+                    .map_err(|e| Failure {
+                        code: 1,
+                        message: e.to_string(),
+                    })?
                     .install(work),
                 None => work(),
             }
@@ -211,13 +232,21 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             if let (Some(path), Some(text)) = (csv, outcome.line_csv) {
                 files.push((path, text.into_bytes()));
             }
-            output::write_all(&files).map_err(|m| Failure { code: 1, message: m })?;
+            output::write_all(&files).map_err(|m| Failure {
+                code: 1,
+                message: m,
+            })?;
             if json {
-                let mut v = serde_json::to_value(&outcome.report)
-                    .map_err(|e| Failure { code: 1, message: e.to_string() })?;
+                let mut v = serde_json::to_value(&outcome.report).map_err(|e| Failure {
+                    code: 1,
+                    message: e.to_string(),
+                })?;
                 if timings {
-                    v["timings_s"] = serde_json::to_value(outcome.report.timings_s)
-                        .map_err(|e| Failure { code: 1, message: e.to_string() })?;
+                    v["timings_s"] =
+                        serde_json::to_value(outcome.report.timings_s).map_err(|e| Failure {
+                            code: 1,
+                            message: e.to_string(),
+                        })?;
                 }
                 println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
             } else {

@@ -67,15 +67,15 @@ pub fn discretise(case: &Case) -> Result<Discretised, RunError> {
     for (k, w) in case.windings.iter().enumerate() {
         regions[winding_tag(k) as usize].current_density = w.current_density();
     }
-    // A = 0 on the axis; A = B0 r / 2 (the uniform background field) on the outer arc.
+    // A = 0 on the axis; on the outer arc the reaction part vanishes, so A = B0 r/2 there
+    // (the solver adds the uniform background exactly).
     let fixed = mesh
-        .nodes
+        .node_kinds
         .iter()
-        .zip(&mesh.node_kinds)
         .enumerate()
-        .filter_map(|(i, (p, kind))| match kind {
+        .filter_map(|(i, kind)| match kind {
             NodeKind::Axis => Some((i as u32, 0.0)),
-            NodeKind::Outer => Some((i as u32, 0.5 * case.background_b * p[0])),
+            NodeKind::Outer => Some((i as u32, 0.0)),
             NodeKind::Interior => None,
         })
         .collect();
@@ -87,6 +87,7 @@ pub fn discretise(case: &Case) -> Result<Discretised, RunError> {
         },
         regions,
         fixed,
+        background_b: case.background_b,
     };
     Ok(Discretised { mesh, problem })
 }
@@ -105,7 +106,7 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
 
     let t2 = Instant::now();
     let j_full = model.problem_currents();
-    let sol = op.solve(&j_full, &model.fixed_values());
+    let sol = op.solve_problem();
     // One solve per winding alone (no background): inductances and the core gain by
     // superposition, reusing the factorisation.
     let n_tri = model.mesh().triangles.len();
@@ -114,9 +115,15 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         .map(|k| {
             let tag = winding_tag(k);
             let j: Vec<f64> = (0..n_tri)
-                .map(|e| if model.mesh().tags[e] == tag { j_full[e] } else { 0.0 })
+                .map(|e| {
+                    if model.mesh().tags[e] == tag {
+                        j_full[e]
+                    } else {
+                        0.0
+                    }
+                })
                 .collect();
-            let s = op.solve(&j, &zero_fixed);
+            let s = op.solve(&j, &zero_fixed, 0.0);
             (j, s)
         })
         .collect();
@@ -153,8 +160,8 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
     let mut inductance = vec![vec![0.0; nw]; nw];
     for (k, (_, s)) in single.iter().enumerate() {
         for (i, w) in case.windings.iter().enumerate() {
-            let lambda = w.turns / w.section_area()
-                * flux::region_integral_of_a(&model, s, winding_tag(i));
+            let lambda =
+                w.turns / w.section_area() * flux::region_integral_of_a(&model, s, winding_tag(i));
             inductance[i][k] = lambda / case.windings[k].current;
         }
     }
@@ -169,7 +176,11 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
             air_moment_Am2: w.air_moment(),
             flux_linkage_Wb: w.turns / w.section_area()
                 * flux::region_integral_of_a(&model, &sol, winding_tag(i)),
-            self_inductance_H: if w.current != 0.0 { Some(inductance[i][i]) } else { None },
+            self_inductance_H: if w.current != 0.0 {
+                Some(inductance[i][i])
+            } else {
+                None
+            },
         })
         .collect();
     let inductance_matrix = if case.windings.iter().all(|w| w.current != 0.0) {
@@ -182,7 +193,7 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
     let core = case.core.as_ref().map(|c| {
         let corners = geometry::core_corners(case);
         let exclusion = 0.1 * geometry::core_thickness(&c.shape);
-        let pk = peak::peak_b(&model, &sol, CORE_TAG, &corners, exclusion);
+        let pk = peak::peak_b(&model, &sol, &locator, CORE_TAG, &corners, exclusion);
         let centre_r = match c.shape {
             crate::case::CoreShape::Tube { bore, diameter, .. } => 0.25 * (bore + diameter),
             _ => 0.0,
@@ -215,8 +226,8 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         .collect::<Result<Vec<_>, _>>()?;
     let line_csv = match opts.line {
         Some((from, to, n)) => {
-            let samples = probe::sample_line(&model, &sol, &locator, from, to, n)
-                .map_err(RunError::Probe)?;
+            let samples =
+                probe::sample_line(&model, &sol, &locator, from, to, n).map_err(RunError::Probe)?;
             Some(crate::report::line_csv(&samples))
         }
         None => None,

@@ -176,7 +176,9 @@ impl Timings {
 
 /// CSV of line samples: header with units, one row per sample.
 pub fn line_csv(samples: &[PointField]) -> String {
-    let mut s = String::from("r_m,z_m,A_phi_Wb_per_m,B_r_T,B_z_T,B_magnitude_T,H_r_A_per_m,H_z_A_per_m,mu_r,region\n");
+    let mut s = String::from(
+        "r_m,z_m,A_phi_Wb_per_m,B_r_T,B_z_T,B_magnitude_T,H_r_A_per_m,H_z_A_per_m,mu_r,region\n",
+    );
     for p in samples {
         let _ = writeln!(
             s,
@@ -209,21 +211,45 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     let _ = writeln!(s, "{}", r.title);
     let _ = writeln!(s, "{}", "=".repeat(r.title.chars().count().max(8)));
     if let Some(c) = &r.core {
-        let _ = writeln!(s, "core      {} — {} (μr = {})", c.shape, c.material, c.mu_r);
+        let _ = writeln!(
+            s,
+            "core      {} — {} (μr = {})",
+            c.shape, c.material, c.mu_r
+        );
     } else {
         let _ = writeln!(s, "core      none (air-core)");
     }
     for w in &r.windings {
-        let _ = writeln!(s, "winding   {}: {} turns at {} A", w.name, w.turns, w.current_A);
+        let _ = writeln!(
+            s,
+            "winding   {}: {} turns at {} A",
+            w.name, w.turns, w.current_A
+        );
     }
     if r.background_b_T != 0.0 {
-        let _ = writeln!(s, "field     uniform background B_z = {:.6e} T", r.background_b_T);
+        let _ = writeln!(
+            s,
+            "field     uniform background B_z = {:.6e} T",
+            r.background_b_T
+        );
     }
     let _ = writeln!(s);
     let _ = writeln!(s, "Dipole moment");
-    let _ = writeln!(s, "  total                    {:>14.6e} A·m²", r.dipole_moment_Am2);
-    let _ = writeln!(s, "  from winding currents    {:>14.6e} A·m²", r.winding_dipole_moment_Am2);
-    let _ = writeln!(s, "  from core magnetisation  {:>14.6e} A·m²", r.core_dipole_moment_Am2);
+    let _ = writeln!(
+        s,
+        "  total                    {:>14.6e} A·m²",
+        r.dipole_moment_Am2
+    );
+    let _ = writeln!(
+        s,
+        "  from winding currents    {:>14.6e} A·m²",
+        r.winding_dipole_moment_Am2
+    );
+    let _ = writeln!(
+        s,
+        "  from core magnetisation  {:>14.6e} A·m²",
+        r.core_dipole_moment_Am2
+    );
     let _ = writeln!(
         s,
         "  field-route check        {:>14.6e} A·m²  (ball of radius {:.4} m; differs by {:.2e})",
@@ -231,7 +257,11 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     );
     match r.apparent_gain {
         Some(g) => {
-            let _ = writeln!(s, "  apparent core gain       {:>14.6}    (windings with core ÷ windings in air)", g);
+            let _ = writeln!(
+                s,
+                "  apparent core gain       {:>14.6}    (windings with core ÷ windings in air)",
+                g
+            );
         }
         None => {
             let _ = writeln!(s, "  apparent core gain       n/a (no winding current)");
@@ -256,8 +286,14 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     }
     let _ = writeln!(s, "  stored energy            {:>14.6e} J", r.energy_J);
     for w in &r.windings {
-        let _ = writeln!(s, "  {}: flux linkage {:.6e} Wb, self-inductance {}", w.name, w.flux_linkage_Wb,
-            w.self_inductance_H.map_or("n/a".to_string(), |l| format!("{l:.6e} H")));
+        let _ = writeln!(
+            s,
+            "  {}: flux linkage {:.6e} Wb, self-inductance {}",
+            w.name,
+            w.flux_linkage_Wb,
+            w.self_inductance_H
+                .map_or("n/a".to_string(), |l| format!("{l:.6e} H"))
+        );
     }
     for p in &r.points {
         let _ = writeln!(

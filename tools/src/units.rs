@@ -109,14 +109,14 @@ pub fn parse(text: &str, dim: Dimension) -> Result<f64, String> {
         return Ok(value);
     }
     if dim == Dimension::Dimensionless {
-        return Err(format!("'{text}' has a unit, but a plain number is expected"));
+        return Err(format!(
+            "'{text}' has a unit, but a plain number is expected"
+        ));
     }
     match factor(unit, dim) {
         Some(f) => Ok(value * f),
         None => match dimension_of(unit) {
-            Some(other) => Err(format!(
-                "unit '{unit}' is {other}, but {dim} is expected"
-            )),
+            Some(other) => Err(format!("unit '{unit}' is {other}, but {dim} is expected")),
             None => Err(format!("unknown unit '{unit}' (expected {dim})")),
         },
     }
@@ -124,7 +124,10 @@ pub fn parse(text: &str, dim: Dimension) -> Result<f64, String> {
 
 /// True if the 'e' at byte `i` is an exponent marker (digit before, digit or sign after).
 fn looks_like_exponent(s: &str, i: usize) -> bool {
-    let before = s[..i].chars().last().is_some_and(|c| c.is_ascii_digit() || c == '.');
+    let before = s[..i]
+        .chars()
+        .last()
+        .is_some_and(|c| c.is_ascii_digit() || c == '.');
     let after = s[i + 1..]
         .chars()
         .next()

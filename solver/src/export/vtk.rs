@@ -30,17 +30,18 @@ pub struct Array {
 /// (region, B, |B|, H, |H|, μr), all in SI units named in the array names.
 pub fn field_arrays(model: &Model, sol: &Solution) -> (Vec<Array>, Vec<Array>, Vec<i32>) {
     let mesh = model.mesh();
+    let a_total = sol.nodal_a(model);
     let flux: Vec<f64> = mesh
         .nodes
         .iter()
-        .zip(&sol.a)
+        .zip(&a_total)
         .map(|(p, a)| 2.0 * std::f64::consts::PI * p[0] * a)
         .collect();
     let points = vec![
         Array {
             name: "A_phi_Wb_per_m".into(),
             components: 1,
-            values: sol.a.clone(),
+            values: a_total,
         },
         // Contours of 2π r A are field lines (flux through the circle of radius r).
         Array {

@@ -33,11 +33,10 @@ pub fn source_moments(model: &Model, sol: &Solution, j_elem: &[f64]) -> Vec<Regi
     for (e, g) in model.geometry().iter().enumerate() {
         let tag = mesh.tags[e] as usize;
         let mat = model.material(e);
-        let av = sol.element_values(model, e);
         let (mut mc, mut mm) = (0.0, 0.0);
         for q in &g.qp {
             mc += 0.5 * q.r * j_elem[e] * q.dv; // (r/2) J dV
-            let b = g.b_at(av, q);
+            let b = sol.b_q(model, e, q);
             let nu = mat.nu(b[0] * b[0] + b[1] * b[1]);
             mm += (1.0 / MU0 - nu) * b[1] * q.dv; // M_z dV
         }

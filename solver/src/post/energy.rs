@@ -8,9 +8,8 @@ pub fn energy(model: &Model, sol: &Solution) -> f64 {
     let mut w = 0.0;
     for (e, g) in model.geometry().iter().enumerate() {
         let mat = model.material(e);
-        let av = sol.element_values(model, e);
         for q in &g.qp {
-            let b = g.b_at(av, q);
+            let b = sol.b_q(model, e, q);
             w += mat.energy_density(b[0] * b[0] + b[1] * b[1]) * q.dv;
         }
     }

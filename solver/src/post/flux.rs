@@ -14,10 +14,8 @@ pub fn region_integral_of_a(model: &Model, sol: &Solution, tag: u32) -> f64 {
         if mesh.tags[e] != tag {
             continue;
         }
-        let av = sol.element_values(model, e);
         for q in &g.qp {
-            let a: f64 = (0..3).map(|i| av[i] * q.n[i]).sum();
-            s += a * q.dv;
+            s += sol.a_q(model, e, q) * q.dv;
         }
     }
     s

@@ -19,7 +19,10 @@ pub fn sample_line(
     (0..n)
         .map(|i| {
             let t = i as f64 / (n - 1) as f64;
-            let p = [from[0] + t * (to[0] - from[0]), from[1] + t * (to[1] - from[1])];
+            let p = [
+                from[0] + t * (to[0] - from[0]),
+                from[1] + t * (to[1] - from[1]),
+            ];
             sol.at_point(model, locator, p)
         })
         .collect()

@@ -241,7 +241,12 @@ impl fmt::Display for CoreShape {
         let mm = |x: f64| x * 1e3;
         match *self {
             CoreShape::Rod { length, diameter } => {
-                write!(f, "rod, {} mm long, {} mm diameter", mm(length), mm(diameter))
+                write!(
+                    f,
+                    "rod, {} mm long, {} mm diameter",
+                    mm(length),
+                    mm(diameter)
+                )
             }
             CoreShape::Tube {
                 length,

@@ -22,10 +22,7 @@ pub fn read_case_file(path: &Path) -> Result<Case, CaseError> {
 /// Parses case text; `file` names it in error messages.
 pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
     let root: Table = text.parse().map_err(|e: toml::de::Error| {
-        let (line, column) = e
-            .span()
-            .map(|s| line_col(text, s.start))
-            .unwrap_or((1, 1));
+        let (line, column) = e.span().map(|s| line_col(text, s.start)).unwrap_or((1, 1));
         CaseError::Syntax {
             file: file.to_string(),
             line,
@@ -35,7 +32,9 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
     })?;
     let top = Section::new(file, String::new(), &root);
     top.only(&["title", "core", "winding", "background", "air", "mesh"])?;
-    let title = top.string("title")?.unwrap_or_else(|| "untitled case".into());
+    let title = top
+        .string("title")?
+        .unwrap_or_else(|| "untitled case".into());
     let core = match top.table("core")? {
         Some(s) => Some(parse_core(&s)?),
         None => None,
@@ -52,15 +51,17 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
                 windings.push(parse_winding(&Section::new(file, key, t), i)?);
             }
         }
-        Some(Value::Table(t)) => {
-            windings.push(parse_winding(&Section::new(file, "winding[1]".into(), t), 0)?)
-        }
+        Some(Value::Table(t)) => windings.push(parse_winding(
+            &Section::new(file, "winding[1]".into(), t),
+            0,
+        )?),
         Some(_) => return Err(top.fault("winding", "must be a [[winding]] table")),
     }
     let background_b = match top.table("background")? {
         Some(s) => {
             s.only(&["b_axial"])?;
-            s.quantity("b_axial", Dimension::FluxDensity)?.unwrap_or(0.0)
+            s.quantity("b_axial", Dimension::FluxDensity)?
+                .unwrap_or(0.0)
         }
         None => 0.0,
     };
@@ -93,7 +94,11 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
         .ok_or_else(|| s.fault("shape", "missing (rod, tube, sphere or spheroid)"))?;
     let common = ["shape", "centre", "material", "mu_r"];
     let with = |extra: &[&'static str]| -> Vec<&'static str> {
-        common.iter().copied().chain(extra.iter().copied()).collect()
+        common
+            .iter()
+            .copied()
+            .chain(extra.iter().copied())
+            .collect()
     };
     let shape = match shape_name.as_str() {
         "rod" => {
@@ -135,19 +140,29 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
         }
     };
     let centre = s.quantity("centre", Dimension::Length)?.unwrap_or(0.0);
-    let (material_name, mu_r) = match (s.string("material")?, s.quantity("mu_r", Dimension::Dimensionless)?) {
-        (Some(_), Some(_)) => {
-            return Err(s.fault("mu_r", "give either material or mu_r, not both"))
+    let (material_name, mu_r) = match (
+        s.string("material")?,
+        s.quantity("mu_r", Dimension::Dimensionless)?,
+    ) {
+        (Some(_), Some(_)) => return Err(s.fault("mu_r", "give either material or mu_r, not both")),
+        (None, None) => {
+            return Err(s.fault("material", "missing (a built-in name or mu_r = number)"))
         }
-        (None, None) => return Err(s.fault("material", "missing (a built-in name or mu_r = number)")),
         (None, Some(mu)) => ("custom".to_string(), mu),
         (Some(name), None) => match materials::find(&name) {
             Some(m) => (name, m.mu_r),
             None => {
-                let names: Vec<&str> = materials::builtin_materials().iter().map(|m| m.name).collect();
+                let names: Vec<&str> = materials::builtin_materials()
+                    .iter()
+                    .map(|m| m.name)
+                    .collect();
                 return Err(s.fault(
                     "material",
-                    &format!("unknown material '{name}'{}; built-in: {}", hint(&name, &names), names.join(", ")),
+                    &format!(
+                        "unknown material '{name}'{}; built-in: {}",
+                        hint(&name, &names),
+                        names.join(", ")
+                    ),
                 ));
             }
         },
@@ -189,7 +204,9 @@ fn parse_winding(s: &Section, index: usize) -> Result<Winding, CaseError> {
         return Err(s.fault("inner_radius", "must not be negative"));
     }
     Ok(Winding {
-        name: s.string("name")?.unwrap_or_else(|| format!("winding {}", index + 1)),
+        name: s
+            .string("name")?
+            .unwrap_or_else(|| format!("winding {}", index + 1)),
         turns,
         current: s
             .quantity("current", Dimension::Current)?
@@ -214,15 +231,24 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         "max_nodes",
     ])?;
     let d = MeshControls::default();
-    let min_angle_deg = s.positive("min_angle", Dimension::Dimensionless)?.unwrap_or(d.min_angle_deg);
+    let min_angle_deg = s
+        .positive("min_angle", Dimension::Dimensionless)?
+        .unwrap_or(d.min_angle_deg);
     if min_angle_deg > 30.0 {
-        return Err(s.fault("min_angle", "above 30 degrees refinement may not terminate; use ≤ 30"));
+        return Err(s.fault(
+            "min_angle",
+            "above 30 degrees refinement may not terminate; use ≤ 30",
+        ));
     }
-    let arc_tolerance = s.positive("arc_tolerance", Dimension::Dimensionless)?.unwrap_or(d.arc_tolerance);
+    let arc_tolerance = s
+        .positive("arc_tolerance", Dimension::Dimensionless)?
+        .unwrap_or(d.arc_tolerance);
     if arc_tolerance > 0.05 {
         return Err(s.fault("arc_tolerance", "must be ≤ 0.05 (relative chord sagitta)"));
     }
-    let fineness = s.positive("fineness", Dimension::Dimensionless)?.unwrap_or(1.0);
+    let fineness = s
+        .positive("fineness", Dimension::Dimensionless)?
+        .unwrap_or(1.0);
     if fineness > 50.0 {
         return Err(s.fault("fineness", "must be ≤ 50"));
     }

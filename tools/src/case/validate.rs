@@ -20,13 +20,15 @@ impl Case {
             s = s.max(match core.shape {
                 CoreShape::Rod { .. } | CoreShape::Tube { .. } => rect(rad, c - hl, c + hl),
                 // The ellipse lies inside its bounding box; the box corner is a safe bound.
-                CoreShape::Sphere { .. } | CoreShape::Spheroid { .. } => {
-                    c.abs() + rad.max(hl)
-                }
+                CoreShape::Sphere { .. } | CoreShape::Spheroid { .. } => c.abs() + rad.max(hl),
             });
         }
         for w in &self.windings {
-            s = s.max(rect(w.outer_radius, w.centre - 0.5 * w.length, w.centre + 0.5 * w.length));
+            s = s.max(rect(
+                w.outer_radius,
+                w.centre - 0.5 * w.length,
+                w.centre + 0.5 * w.length,
+            ));
         }
         s
     }
@@ -61,7 +63,11 @@ pub(super) fn validate(case: &Case, file: &str) -> Result<(), CaseError> {
             if bore >= diameter {
                 return Err(fault(
                     "core.bore".into(),
-                    format!("bore {} mm must be smaller than the diameter {} mm", bore * 1e3, diameter * 1e3),
+                    format!(
+                        "bore {} mm must be smaller than the diameter {} mm",
+                        bore * 1e3,
+                        diameter * 1e3
+                    ),
                 ));
             }
         }
@@ -90,7 +96,12 @@ pub(super) fn validate(case: &Case, file: &str) -> Result<(), CaseError> {
             if rects_overlap(rect_of(w), rect_of(other)) {
                 return Err(fault(
                     key("centre"),
-                    format!("winding '{}' overlaps winding '{}' (winding[{}])", w.name, other.name, j + 1),
+                    format!(
+                        "winding '{}' overlaps winding '{}' (winding[{}])",
+                        w.name,
+                        other.name,
+                        j + 1
+                    ),
                 ));
             }
         }
