@@ -1,0 +1,32 @@
+#!/usr/bin/env python3
+"""Reads an axicore .vtu back with a general-purpose reader (meshio) and checks it.
+
+Usage: check_vtu.py FILE.vtu EXPECTED_TRIANGLES
+Checks: cell count and type, region ids present (0 air, 1 core, >= 2 windings), the point and
+cell array names, and that the arrays hold finite values in physically sensible ranges.
+"""
+import math
+import sys
+
+import meshio
+
+path, expected = sys.argv[1], int(sys.argv[2])
+m = meshio.read(path)
+tri = [c for c in m.cells if c.type == "triangle"]
+assert len(tri) == 1, f"expected one triangle block, got {[c.type for c in m.cells]}"
+n = len(tri[0].data)
+assert n == expected, f"{n} triangles, expected {expected}"
+for name in ("A_phi_Wb_per_m", "flux_Wb"):
+    assert name in m.point_data, f"point array {name} missing: {list(m.point_data)}"
+cells = {k: v[0] for k, v in m.cell_data.items()}
+for name in ("region", "B_T", "B_magnitude_T", "H_A_per_m", "H_magnitude_A_per_m", "mu_r"):
+    assert name in cells, f"cell array {name} missing: {list(cells)}"
+regions = set(int(x) for x in cells["region"])
+assert {0, 1, 2} <= regions, f"region ids {sorted(regions)}"
+for name, arr in list(cells.items()) + list(m.point_data.items()):
+    flat = arr.ravel()
+    assert all(math.isfinite(float(x)) for x in flat), f"{name} has non-finite values"
+assert min(cells["mu_r"]) >= 1.0 - 1e-12, "mu_r below 1"
+assert min(cells["B_magnitude_T"]) >= 0.0
+assert 0.0 < max(cells["B_magnitude_T"]) < 10.0, "implausible |B| range"
+print(f"{path}: {n} triangles, regions {sorted(regions)}, arrays ok (meshio {meshio.__version__})")
