@@ -11,7 +11,12 @@ fn run_case(name: &str, toml: &str) -> (i32, String, PathBuf) {
     std::fs::write(&case, toml).unwrap();
     let vtk = dir.join("out.vtu");
     let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
-        .args(["solve", case.to_str().unwrap(), "--vtk", vtk.to_str().unwrap()])
+        .args([
+            "solve",
+            case.to_str().unwrap(),
+            "--vtk",
+            vtk.to_str().unwrap(),
+        ])
         .output()
         .unwrap();
     let err = String::from_utf8_lossy(&out.stderr).to_string();
@@ -41,7 +46,10 @@ fn expect_fault(name: &str, toml: &str, needles: &[&str]) {
         assert!(err.contains(n), "{name}: '{n}' missing in: {err}");
     }
     assert!(!err.contains("panicked"), "{name}: {err}");
-    let leftovers: Vec<_> = std::fs::read_dir(&dir).unwrap().map(|e| e.unwrap().file_name()).collect();
+    let leftovers: Vec<_> = std::fs::read_dir(&dir)
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
     assert_eq!(leftovers.len(), 1, "{name}: output written: {leftovers:?}");
     let _ = std::fs::remove_dir_all(&dir);
 }
@@ -53,53 +61,101 @@ fn malformed_toml_is_reported_with_line_and_column() {
 
 #[test]
 fn unknown_key_gets_a_did_you_mean_hint() {
-    expect_fault("unknown", &GOOD.replace("length = \"70 mm\"", "lenght = \"70 mm\""), &["core.lenght", "did you mean 'length'"]);
+    expect_fault(
+        "unknown",
+        &GOOD.replace("length = \"70 mm\"", "lenght = \"70 mm\""),
+        &["core.lenght", "did you mean 'length'"],
+    );
 }
 
 #[test]
 fn missing_required_key_is_named() {
-    expect_fault("missing", &GOOD.replace("turns = 100\n", ""), &["winding[1].turns", "missing"]);
+    expect_fault(
+        "missing",
+        &GOOD.replace("turns = 100\n", ""),
+        &["winding[1].turns", "missing"],
+    );
 }
 
 #[test]
 fn unknown_unit_is_named() {
-    expect_fault("unit", &GOOD.replace("\"40 mA\"", "\"40 furlong\""), &["winding[1].current", "unknown unit 'furlong'"]);
+    expect_fault(
+        "unit",
+        &GOOD.replace("\"40 mA\"", "\"40 furlong\""),
+        &["winding[1].current", "unknown unit 'furlong'"],
+    );
 }
 
 #[test]
 fn unit_of_the_wrong_dimension_is_named() {
-    expect_fault("dimension", &GOOD.replace("\"40 mA\"", "\"40 mT\""), &["winding[1].current", "flux density"]);
+    expect_fault(
+        "dimension",
+        &GOOD.replace("\"40 mA\"", "\"40 mT\""),
+        &["winding[1].current", "flux density"],
+    );
 }
 
 #[test]
 fn zero_negative_and_non_finite_sizes_are_refused() {
-    expect_fault("zero", &GOOD.replace("\"8 mm\"", "\"0 mm\""), &["core.diameter", "positive"]);
-    expect_fault("negative", &GOOD.replace("\"60 mm\"", "\"-60 mm\""), &["winding[1].length", "positive"]);
-    expect_fault("nan", &GOOD.replace("\"70 mm\"", "nan"), &["core.length", "finite"]);
+    expect_fault(
+        "zero",
+        &GOOD.replace("\"8 mm\"", "\"0 mm\""),
+        &["core.diameter", "positive"],
+    );
+    expect_fault(
+        "negative",
+        &GOOD.replace("\"60 mm\"", "\"-60 mm\""),
+        &["winding[1].length", "positive"],
+    );
+    expect_fault(
+        "nan",
+        &GOOD.replace("\"70 mm\"", "nan"),
+        &["core.length", "finite"],
+    );
 }
 
 #[test]
 fn relative_permeability_below_one_is_refused() {
-    expect_fault("mu", &GOOD.replace("material = \"nickel-iron-80\"", "mu_r = 0.5"), &["core.mu_r", "below 1"]);
+    expect_fault(
+        "mu",
+        &GOOD.replace("material = \"nickel-iron-80\"", "mu_r = 0.5"),
+        &["core.mu_r", "below 1"],
+    );
 }
 
 #[test]
 fn winding_overlapping_the_core_is_refused() {
-    expect_fault("overlap-core", &GOOD.replace("\"4.2 mm\"", "\"3 mm\""), &["winding[1]", "overlaps the core"]);
+    expect_fault(
+        "overlap-core",
+        &GOOD.replace("\"4.2 mm\"", "\"3 mm\""),
+        &["winding[1]", "overlaps the core"],
+    );
 }
 
 #[test]
 fn overlapping_windings_are_refused() {
     let two = format!("{GOOD}\n[[winding]]\nturns = 10\ncurrent = \"1 A\"\ninner_radius = \"5 mm\"\nouter_radius = \"7 mm\"\nlength = \"10 mm\"\n");
-    expect_fault("overlap-windings", &two, &["winding[2]", "overlaps winding"]);
+    expect_fault(
+        "overlap-windings",
+        &two,
+        &["winding[2]", "overlaps winding"],
+    );
 }
 
 #[test]
 fn region_outside_the_air_region_is_refused() {
-    expect_fault("air", &format!("{GOOD}\n[air]\nradius = \"40 mm\"\n"), &["air.radius", "too small"]);
+    expect_fault(
+        "air",
+        &format!("{GOOD}\n[air]\nradius = \"40 mm\"\n"),
+        &["air.radius", "too small"],
+    );
 }
 
 #[test]
 fn unknown_material_is_refused_with_a_hint() {
-    expect_fault("material", &GOOD.replace("nickel-iron-80", "nikel-iron-80"), &["core.material", "did you mean 'nickel-iron-80'"]);
+    expect_fault(
+        "material",
+        &GOOD.replace("nickel-iron-80", "nikel-iron-80"),
+        &["core.material", "did you mean 'nickel-iron-80'"],
+    );
 }

@@ -8,10 +8,21 @@ fn run(threads: &str, tag: &str) -> (Vec<u8>, Vec<u8>) {
     std::fs::create_dir_all(&dir).unwrap();
     let vtk = dir.join("field.vtu");
     let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
-        .args(["solve", "--json", "--threads", threads, "--vtk", vtk.to_str().unwrap()])
+        .args([
+            "solve",
+            "--json",
+            "--threads",
+            threads,
+            "--vtk",
+            vtk.to_str().unwrap(),
+        ])
         .output()
         .unwrap();
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
     let v = std::fs::read(&vtk).unwrap();
     let _ = std::fs::remove_dir_all(&dir);
     (out.stdout, v)
