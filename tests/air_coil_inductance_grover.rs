@@ -14,18 +14,7 @@ use common::{rel, solve};
 
 #[test]
 fn air_coil_inductance_matches_filament_sum() {
-    let out = solve(
-        r#"
-title = "air coil inductance"
-[[winding]]
-turns = 1000
-current = "1 A"
-inner_radius = "10 mm"
-outer_radius = "20 mm"
-length = "100 mm"
-"#,
-        &RunOptions::default(),
-    );
+    let out = solve(common::THICK_COIL, &RunOptions::default());
     let want = reference::thick_winding_inductance_filaments(0.010, 0.020, 0.100, 1000.0, 20, 200);
     let l = out.report.inductance_H.expect("inductance");
     assert!(rel(l, want) < 1e-2, "FE {l} H vs filament sum {want} H");

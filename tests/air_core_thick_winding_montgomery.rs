@@ -15,15 +15,7 @@ mod common;
 use axicore::pipeline::RunOptions;
 use common::{rel, solve};
 
-const COIL: &str = r#"
-title = "thick air-core winding"
-[[winding]]
-turns = 1000
-current = "1 A"
-inner_radius = "10 mm"
-outer_radius = "20 mm"
-length = "100 mm"
-"#;
+use common::THICK_COIL as COIL;
 
 #[test]
 fn air_core_dipole_matches_the_section_integral_by_both_estimators() {

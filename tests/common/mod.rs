@@ -1,4 +1,5 @@
 //! Shared helpers of the validation tests: run a case given as TOML text.
+//! No outside check lives here; each test file names the source of its reference values.
 #![allow(dead_code)]
 
 use axicore::case::parse_case;
@@ -14,3 +15,15 @@ pub fn solve(toml: &str, opts: &RunOptions) -> Outcome {
 pub fn rel(got: f64, want: f64) -> f64 {
     (got - want).abs() / want.abs()
 }
+
+/// The thick air-core winding of references.md §7 checks #4/#5 (a1 = 10 mm, a2 = 20 mm,
+/// length 100 mm, N = 1000, I = 1 A; source cited in the tests that use it).
+pub const THICK_COIL: &str = r#"
+title = "thick air-core winding"
+[[winding]]
+turns = 1000
+current = "1 A"
+inner_radius = "10 mm"
+outer_radius = "20 mm"
+length = "100 mm"
+"#;
