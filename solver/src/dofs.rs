@@ -10,6 +10,8 @@ pub struct DofMap {
     pub index: Vec<u32>,
     /// Number of free unknowns.
     pub n_free: usize,
+    /// For each equation its node (the inverse of `index` on free nodes).
+    pub free_nodes: Vec<u32>,
 }
 
 impl DofMap {
@@ -22,14 +24,18 @@ impl DofMap {
             }
         }
         let mut index = vec![FIXED; n_nodes];
-        let mut n_free = 0usize;
+        let mut free_nodes = Vec::with_capacity(n_nodes);
         for (i, f) in is_fixed.iter().enumerate() {
             if !f {
-                index[i] = n_free as u32;
-                n_free += 1;
+                index[i] = free_nodes.len() as u32;
+                free_nodes.push(i as u32);
             }
         }
-        Self { index, n_free }
+        Self {
+            index,
+            n_free: free_nodes.len(),
+            free_nodes,
+        }
     }
 
     /// Equation number of `node`, or `None` when it is fixed.

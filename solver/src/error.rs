@@ -55,6 +55,20 @@ pub enum SolverError {
         /// Axial position in m.
         z: f64,
     },
+    /// The nonlinear iteration did not reach its tolerances.
+    #[error(
+        "Newton iteration did not converge: relative residual {residual:.3e} after {iterations} iterations ({reason})"
+    )]
+    NotConverged {
+        /// Newton iterations done.
+        iterations: usize,
+        /// Last relative residual.
+        residual: f64,
+        /// Why it stopped.
+        reason: String,
+        /// Relative residual before each iteration and at the end.
+        history: Vec<f64>,
+    },
     /// Writing an output file failed.
     #[error("cannot write {path}: {reason}")]
     Write {

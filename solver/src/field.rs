@@ -121,7 +121,7 @@ impl Solution {
         p: Point,
     ) -> Result<PointField, SolverError> {
         let (e, a, b) = self.b_recovered(model, locator, p)?;
-        let nu = model.material(e).nu(b[0] * b[0] + b[1] * b[1]);
+        let nu = model.material(e).nu(b[0].hypot(b[1]));
         Ok(PointField {
             at: p,
             a,

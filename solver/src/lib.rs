@@ -22,10 +22,11 @@
 //! - [`mesh`]: the triangle mesh the solver reads (nodes, triangles, region tags).
 //! - [`element`]: shape functions and per-element geometry with quadrature points.
 //! - [`quadrature`]: triangle quadrature rules.
-//! - [`material`]: reluctivity laws ν(|B|²).
+//! - [`material`]: linear and saturating laws H(|B|).
 //! - [`dofs`], [`pattern`], [`weak_form`], [`assembly`]: from mesh to sparse system.
 //! - [`cholesky`]: the sparse direct solve (faer).
-//! - [`problem`], [`solve`]: what to solve and the solve itself.
+//! - [`problem`], [`solve`]: what to solve and the linear solve.
+//! - [`nonlinear`]: Newton's method for saturating materials.
 //! - [`field`], [`locate`], [`recover`]: the solved field, evaluation at points, patch recovery.
 //! - [`post`]: dipole moment, energy, flux linkage, probes, core peak field.
 //! - [`export`]: VTK output.
@@ -42,6 +43,7 @@ pub mod field;
 pub mod locate;
 pub mod material;
 pub mod mesh;
+pub mod nonlinear;
 pub mod pattern;
 pub mod post;
 pub mod problem;
@@ -54,6 +56,7 @@ pub use error::SolverError;
 pub use field::{PointField, Solution};
 pub use material::Material;
 pub use mesh::FeMesh;
+pub use nonlinear::{Excitation, NewtonReport, NewtonSettings};
 pub use problem::{Problem, RegionProps};
 pub use solve::{LinearOperator, Model};
 

@@ -15,14 +15,14 @@ use crate::SolverError;
 /// Everything about a problem that does not depend on the field values.
 #[derive(Debug)]
 pub struct Model {
-    mesh: FeMesh,
-    geom: Vec<ElementGeometry>,
-    regions: Vec<RegionProps>,
-    dofs: DofMap,
-    pattern: Pattern,
-    symbolic: SymbolicSpd,
-    fixed: Vec<(u32, f64)>,
-    background: f64,
+    pub(crate) mesh: FeMesh,
+    pub(crate) geom: Vec<ElementGeometry>,
+    pub(crate) regions: Vec<RegionProps>,
+    pub(crate) dofs: DofMap,
+    pub(crate) pattern: Pattern,
+    pub(crate) symbolic: SymbolicSpd,
+    pub(crate) fixed: Vec<(u32, f64)>,
+    pub(crate) background: f64,
 }
 
 impl Model {
@@ -36,7 +36,7 @@ impl Model {
             background_b,
         } = problem;
         let magnetic: Vec<bool> = (0..mesh.triangles.len())
-            .map(|e| regions[mesh.tags[e] as usize].material != Material::AIR)
+            .map(|e| regions[mesh.tags[e] as usize].material.is_magnetic())
             .collect();
         let geom = ElementGeometry::all(&mesh, &flux_nodes(&mesh, &magnetic));
         let fixed_nodes: Vec<u32> = fixed.iter().map(|&(n, _)| n).collect();
@@ -126,6 +126,11 @@ impl Model {
         (0..self.mesh.triangles.len())
             .map(|e| self.current_density(e))
             .collect()
+    }
+
+    /// Whether every material is linear (one linear solve gives the field).
+    pub fn is_linear(&self) -> bool {
+        self.regions.iter().all(|r| r.material.is_linear())
     }
 
     /// Assembles and factorises the linear operator (materials must all be linear).

@@ -5,8 +5,20 @@
 //! ```
 //! with B(φ) = (−∂φ/∂z, ∂φ/∂r + φ/r) and dV = 2π r dr dz (inside the quadrature measure); the
 //! basis φ_a is N_a or N_a·r_a/r (see [`crate::element::tri3`]).
+//!
+//! For a saturating law the discrete equations are the residual R(a) = 0 with
+//!
+//! ```text
+//!   R_a = ∫_e [ν(|B|) B − ν0 B0 e_z]·B(φ_a) dV − ∫_e J_φ φ_a dV
+//!   T_ab = ∂R_a/∂a_b = ∫_e [ ν B(φ_a)·B(φ_b) + (ν_d − ν)(b̂·B(φ_a))(b̂·B(φ_b)) ] dV
+//! ```
+//! where B is the total field (reaction plus background B0 e_z), b̂ = B/|B| and ν_d = dH/dB.
+//! The ν0 B0 term integrates to zero in the continuum (B0 is curl-free in vacuum); keeping it
+//! makes the residual vanish identically in empty air and reproduces the linear right-hand side.
+//! T is the Hessian of the convex magnetic energy, hence symmetric positive definite.
 
 use crate::element::ElementGeometry;
+use crate::material::Material;
 
 /// Element stiffness for a reluctivity given per quadrature point by `nu(q)` (m/H).
 #[inline]
@@ -42,6 +54,58 @@ pub fn load(g: &ElementGeometry, j: f64) -> [f64; 3] {
         }
     }
     f
+}
+
+/// Element residual R_a and, if `with_tangent`, tangent T_ab at reaction coefficients `a`
+/// (Wb/m), background `b0` (T), current density `j` (A/m²) and material `mat`.
+#[inline]
+pub fn residual_and_tangent(
+    g: &ElementGeometry,
+    a: [f64; 3],
+    b0: f64,
+    j: f64,
+    mat: &Material,
+    with_tangent: bool,
+) -> ([f64; 3], [[f64; 3]; 3]) {
+    let nu0 = 1.0 / crate::MU0;
+    let mut r = [0.0; 3];
+    let mut t = [[0.0; 3]; 3];
+    for q in &g.qp {
+        let c = [g.curl(0, q), g.curl(1, q), g.curl(2, q)]; // B(φ_a)
+        let bx = [
+            a[0] * c[0][0] + a[1] * c[1][0] + a[2] * c[2][0],
+            a[0] * c[0][1] + a[1] * c[1][1] + a[2] * c[2][1] + b0,
+        ];
+        let bm = bx[0].hypot(bx[1]);
+        let nu = mat.nu(bm);
+        let hx = [nu * bx[0], nu * bx[1] - nu0 * b0]; // ν B − ν0 B0 e_z
+        for k in 0..3 {
+            r[k] += (hx[0] * c[k][0] + hx[1] * c[k][1] - j * g.phi(k, q)) * q.dv;
+        }
+        if with_tangent {
+            let extra = if bm > 0.0 { mat.nu_diff(bm) - nu } else { 0.0 };
+            let bh = if bm > 0.0 {
+                [bx[0] / bm, bx[1] / bm]
+            } else {
+                [0.0, 0.0]
+            };
+            let p = [0, 1, 2].map(|k| bh[0] * c[k][0] + bh[1] * c[k][1]); // b̂·B(φ_a)
+            for k in 0..3 {
+                for l in k..3 {
+                    t[k][l] += (nu * (c[k][0] * c[l][0] + c[k][1] * c[l][1])
+                        + extra * p[k] * p[l])
+                        * q.dv;
+                }
+            }
+        }
+    }
+    if with_tangent {
+        let (t01, t02, t12) = (t[0][1], t[0][2], t[1][2]);
+        t[1][0] = t01;
+        t[2][0] = t02;
+        t[2][1] = t12;
+    }
+    (r, t)
 }
 
 #[cfg(test)]

@@ -4,10 +4,14 @@
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
+pub mod bh_csv;
 pub mod case;
 pub mod geometry;
+pub mod operating_point;
 pub mod output;
 pub mod pipeline;
+pub mod ramp;
+pub mod ramp_plot;
 pub mod report;
 pub mod units;
 

@@ -3,8 +3,10 @@
 use std::path::PathBuf;
 use std::process::ExitCode;
 
-use axicore::case::{builtin_materials, parse_case, read_case_file, Case};
-use axicore::pipeline::{discretise, run, RunOptions};
+use axicore::case::{builtin_materials, find_material, parse_case, read_case_file, Case};
+use axicore::pipeline::{discretise, run, RunError, RunOptions};
+use axicore::{ramp, ramp_plot};
+use axicore_solver::SolverError;
 use axicore::report::summary;
 use axicore::units::{self, Dimension};
 use axicore::{output, EXAMPLE_CASE, EXAMPLE_NAME};
@@ -18,8 +20,13 @@ Examples:
   axicore solve my.toml --line 0,-60mm:0,60mm:121 --csv axis.csv
   axicore solve my.toml --point 0,0 --point 5mm,36mm
   axicore mesh my.toml --vtk mesh.vtu             mesh only, print statistics
+  axicore ramp --to 300mA --steps 30 --csv m.csv --svg m.svg
+                                                  moment–current curve of the example
   axicore example > my.toml                       start a case from the example
-  axicore materials                               list built-in materials";
+  axicore materials                               list built-in materials
+  axicore materials nickel-iron-80 --csv          print a material's B–H curve
+
+Exit codes: 0 success, 1 failure, 2 bad input, 3 the nonlinear solve did not converge.";
 
 /// Axisymmetric finite-element magnetostatics for rod-core coils: dipole moment per winding
 /// on a finite core, fields, inductance, VTK maps.
@@ -67,10 +74,37 @@ enum Command {
         #[arg(long, value_name = "FILE")]
         vtk: Option<PathBuf>,
     },
+    /// Moment against current: solve rising currents with continuation, find the knee.
+    #[command(after_help = EXAMPLES)]
+    Ramp {
+        /// Case file (TOML); the built-in example when omitted.
+        case: Option<PathBuf>,
+        /// Final current of the first winding (others scale with it), e.g. "2 A".
+        #[arg(long, value_name = "CURRENT")]
+        to: String,
+        /// Number of equal current steps.
+        #[arg(long, default_value_t = 40)]
+        steps: usize,
+        /// Write the curve as CSV.
+        #[arg(long, value_name = "FILE")]
+        csv: Option<PathBuf>,
+        /// Draw the curve as an SVG plot.
+        #[arg(long, value_name = "FILE")]
+        svg: Option<PathBuf>,
+        /// Print the result as JSON instead of the summary.
+        #[arg(long)]
+        json: bool,
+    },
     /// Print the built-in example case file.
     Example,
-    /// List the built-in materials.
-    Materials,
+    /// List the built-in materials, or print one material's B–H curve.
+    Materials {
+        /// A built-in material name: print its curve.
+        name: Option<String>,
+        /// Print the curve as CSV (H in A/m, B in T).
+        #[arg(long, requires = "name")]
+        csv: bool,
+    },
 }
 
 /// A failure with its exit code: 2 for bad input, 1 for anything else.
@@ -136,19 +170,132 @@ fn parse_line(text: &str) -> Result<([f64; 2], [f64; 2], usize), Failure> {
     Ok((parse_point(a, "--line")?, parse_point(b, "--line")?, n))
 }
 
+/// Exit code of a failed run: 2 for a probe outside the mesh (bad input), 3 for a nonlinear
+/// solve that did not converge, 1 otherwise.
+fn run_failure(e: RunError) -> Failure {
+    let code = match &e {
+        RunError::Probe(_) => 2,
+        RunError::Solve(SolverError::NotConverged { .. }) => 3,
+        _ => 1,
+    };
+    Failure {
+        code,
+        message: e.to_string(),
+    }
+}
+
+fn materials(name: Option<String>, csv: bool) -> Result<(), Failure> {
+    let Some(name) = name else {
+        println!(
+            "{:<18} {:>6} {:>9} {:>9}  source",
+            "name", "Bs/T", "μ_initial", "μ_max"
+        );
+        for m in builtin_materials() {
+            println!(
+                "{:<18} {:>6} {:>9} {:>9}  {}",
+                m.name, m.saturation_t, m.mu_initial, m.mu_max, m.note
+            );
+        }
+        return Ok(());
+    };
+    let Some(m) = find_material(&name) else {
+        let names: Vec<&str> = builtin_materials().iter().map(|m| m.name).collect();
+        return Err(input_error(format!(
+            "unknown material '{name}'; built-in: {}",
+            names.join(", ")
+        )));
+    };
+    let law = m.material();
+    // Logarithmic sweep of H: the knee of a high-permeability alloy sits at a few A/m.
+    let points: Vec<[f64; 2]> = std::iter::once([0.0, 0.0])
+        .chain((0..=120).map(|i| {
+            let h = 10f64.powf(-1.0 + 7.0 * i as f64 / 120.0);
+            [h, law.b_of_h(h)]
+        }))
+        .collect();
+    if csv {
+        print!("{}", axicore::bh_csv::write(&points));
+    } else {
+        println!("{} — {}", m.name, m.note);
+        println!("{:>14} {:>10} {:>12}", "H/(A/m)", "B/T", "μr = B/μ0H");
+        for p in points.iter().skip(1).step_by(6) {
+            println!(
+                "{:>14.4e} {:>10.5} {:>12.1}",
+                p[0],
+                p[1],
+                p[1] / (axicore_solver::MU0 * p[0])
+            );
+        }
+    }
+    Ok(())
+}
+
+fn ramp_command(
+    case: &Case,
+    to: &str,
+    steps: usize,
+    csv: Option<PathBuf>,
+    svg: Option<PathBuf>,
+    json: bool,
+) -> Result<(), Failure> {
+    let to = units::parse(to, Dimension::Current)
+        .map_err(|e| input_error(format!("--to: {e}")))?;
+    if !(to.is_finite() && to > 0.0) {
+        return Err(input_error(format!("--to: {to} A must be positive")));
+    }
+    if !(1..=10_000).contains(&steps) {
+        return Err(input_error(format!(
+            "--steps: {steps} must be from 1 to 10000"
+        )));
+    }
+    if case.windings.first().is_none_or(|w| w.current == 0.0) {
+        return Err(input_error(
+            "ramp: the first winding must exist and carry a nonzero current (it sets the scale)"
+                .into(),
+        ));
+    }
+    let result = ramp::ramp(case, to, steps).map_err(run_failure)?;
+    let mut files = Vec::new();
+    if let Some(path) = csv {
+        files.push((path, ramp::csv(&result).into_bytes()));
+    }
+    if let Some(path) = svg {
+        let text = ramp_plot::moment_current_svg(&result).map_err(|e| Failure {
+            code: 1,
+            message: e.to_string(),
+        })?;
+        files.push((path, text.into_bytes()));
+    }
+    output::write_all(&files).map_err(|m| Failure {
+        code: 1,
+        message: m,
+    })?;
+    if json {
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&result).unwrap_or_default()
+        );
+    } else {
+        print!("{}", ramp::summary(&result));
+    }
+    Ok(())
+}
+
 fn dispatch(cli: Cli) -> Result<(), Failure> {
     match cli.command {
         Command::Example => {
             print!("{EXAMPLE_CASE}");
             Ok(())
         }
-        Command::Materials => {
-            println!("{:<18} {:>10}  note", "name", "mu_r");
-            for m in builtin_materials() {
-                println!("{:<18} {:>10}  {}", m.name, m.mu_r, m.note);
-            }
-            Ok(())
-        }
+        Command::Materials { name, csv } => materials(name, csv),
+        Command::Ramp {
+            case,
+            to,
+            steps,
+            csv,
+            svg,
+            json,
+        } => ramp_command(&load(&case)?, &to, steps, csv, svg, json),
         Command::Mesh { case, vtk } => {
             let case = load(&case)?;
             let d = discretise(&case).map_err(|e| Failure {
@@ -218,13 +365,7 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                     .install(work),
                 None => work(),
             }
-            .map_err(|e| Failure {
-                code: match e {
-                    axicore::pipeline::RunError::Probe(_) => 2,
-                    _ => 1,
-                },
-                message: e.to_string(),
-            })?;
+            .map_err(run_failure)?;
             let mut files = Vec::new();
             if let (Some(path), Some(bytes)) = (vtk, outcome.vtk) {
                 files.push((path, bytes));

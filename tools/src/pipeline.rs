@@ -5,11 +5,12 @@ use std::time::Instant;
 
 use axicore_mesher::{build_mesh, MeshError, NodeKind};
 use axicore_solver::locate::Locator;
-use axicore_solver::post::{dipole, energy, flux, peak, probe};
-use axicore_solver::{FeMesh, Material, Model, Problem, RegionProps, Solution, SolverError};
+use axicore_solver::post::{dipole, energy, flux, probe};
+use axicore_solver::{FeMesh, Model, Problem, RegionProps, SolverError};
 
 use crate::case::Case;
 use crate::geometry::{self, winding_tag, AIR_TAG, CORE_TAG};
+use crate::operating_point;
 use crate::report::{CoreReport, MeshReport, PointReport, Report, Timings, WindingReport};
 
 /// What to compute beyond the standard report.
@@ -62,7 +63,7 @@ pub fn discretise(case: &Case) -> Result<Discretised, RunError> {
     let mesh = build_mesh(&spec)?;
     let mut regions = vec![RegionProps::air(); 2 + case.windings.len()];
     if let Some(core) = &case.core {
-        regions[CORE_TAG as usize].material = Material::Linear { mu_r: core.mu_r };
+        regions[CORE_TAG as usize].material = core.material.clone();
     }
     for (k, w) in case.windings.iter().enumerate() {
         regions[winding_tag(k) as usize].current_density = w.current_density();
@@ -101,40 +102,29 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
 
     let t1 = Instant::now();
     let model = Model::new(problem)?;
-    let op = model.linear_operator()?;
+    let op = if model.is_linear() {
+        Some(model.linear_operator()?)
+    } else {
+        None
+    };
     let t_factor = t1.elapsed().as_secs_f64();
 
     let t2 = Instant::now();
-    let j_full = model.problem_currents();
-    let sol = op.solve_problem();
-    // One solve per winding alone (no background): inductances and the core gain by
-    // superposition, reusing the factorisation.
-    let n_tri = model.mesh().triangles.len();
-    let zero_fixed = vec![0.0; model.mesh().nodes.len()];
-    let single: Vec<(Vec<f64>, Solution)> = (0..case.windings.len())
-        .map(|k| {
-            let tag = winding_tag(k);
-            let j: Vec<f64> = (0..n_tri)
-                .map(|e| {
-                    if model.mesh().tags[e] == tag {
-                        j_full[e]
-                    } else {
-                        0.0
-                    }
-                })
-                .collect();
-            let s = op.solve(&j, &zero_fixed, 0.0);
-            (j, s)
-        })
-        .collect();
+    let j_full = operating_point::currents(&model, case, 1.0);
+    let (sol, newton) = operating_point::solve_field(
+        &model,
+        op.as_ref(),
+        &j_full,
+        case.background_b,
+        None,
+        &case.newton,
+    )?;
     let t_solve = t2.elapsed().as_secs_f64();
 
     let t3 = Instant::now();
     let locator = Locator::new(model.mesh());
-    let parts = dipole::source_moments(&model, &sol, &j_full);
-    let winding_moment: f64 = parts.iter().map(|p| p.current).sum();
-    let core_moment: f64 = parts.iter().map(|p| p.magnetization).sum();
-    let total = winding_moment + core_moment;
+    let fig = operating_point::figures(&model, op.as_ref(), case, &locator, &sol, &j_full, 1.0)?;
+    let total = fig.total;
     let ro = case.effective_air_radius();
     let rb = geometry::ball_radius(case);
     let ball = dipole::ball_moment(&model, &sol, &locator, rb, case.background_b, Some(ro))?;
@@ -143,28 +133,7 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
     } else {
         (ball - total).abs()
     };
-
-    // Windings alone: moment with the core (by superposition) over moment in air.
-    let windings_total: f64 = single
-        .iter()
-        .map(|(j, s)| {
-            dipole::source_moments(&model, s, j)
-                .iter()
-                .map(|p| p.current + p.magnetization)
-                .sum::<f64>()
-        })
-        .sum();
-    let apparent_gain = (winding_moment != 0.0).then(|| windings_total / winding_moment);
-
     let nw = case.windings.len();
-    let mut inductance = vec![vec![0.0; nw]; nw];
-    for (k, (_, s)) in single.iter().enumerate() {
-        for (i, w) in case.windings.iter().enumerate() {
-            let lambda =
-                w.turns / w.section_area() * flux::region_integral_of_a(&model, s, winding_tag(i));
-            inductance[i][k] = lambda / case.windings[k].current;
-        }
-    }
     let windings: Vec<WindingReport> = case
         .windings
         .iter()
@@ -174,26 +143,15 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
             turns: w.turns,
             current_A: w.current,
             air_moment_Am2: w.air_moment(),
-            flux_linkage_Wb: w.turns / w.section_area()
-                * flux::region_integral_of_a(&model, &sol, winding_tag(i)),
-            self_inductance_H: if w.current != 0.0 {
-                Some(inductance[i][i])
-            } else {
-                None
-            },
+            flux_linkage_Wb: fig.flux_linkage[i],
+            self_inductance_H: Some(fig.incremental_inductance[i][i]),
+            apparent_inductance_H: (w.current != 0.0).then(|| fig.flux_linkage[i] / w.current),
         })
         .collect();
-    let inductance_matrix = if case.windings.iter().all(|w| w.current != 0.0) {
-        Some(inductance)
-    } else {
-        None
-    };
+    let inductance_matrix = (nw > 0).then(|| fig.incremental_inductance.clone());
 
     let b_origin = sol.b_recovered(&model, &locator, [0.0, 0.0])?.2[1];
     let core = case.core.as_ref().map(|c| {
-        let corners = geometry::core_corners(case);
-        let exclusion = 0.1 * geometry::core_thickness(&c.shape);
-        let pk = peak::peak_b(&model, &sol, &locator, CORE_TAG, &corners, exclusion);
         let centre_r = match c.shape {
             crate::case::CoreShape::Tube { bore, diameter, .. } => 0.25 * (bore + diameter),
             _ => 0.0,
@@ -205,14 +163,20 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         CoreReport {
             shape: c.shape.to_string(),
             material: c.material_name.clone(),
-            mu_r: c.mu_r,
+            initial_mu_r: c.material.initial_mu_r(),
+            saturation_b_T: fig.b_sat,
             volume_m3: flux::region_volume(&model, CORE_TAG),
             exact_volume_m3: c.shape.volume(),
             b_centre_T: centre[0].hypot(centre[1]),
             b_centre_at_m: [centre_r, c.centre],
-            max_b_T: pk.map(|p| p.b),
-            max_b_at_m: pk.map(|p| p.at),
-            max_b_corner_exclusion_m: exclusion,
+            max_b_T: fig.peak.map(|p| p.b),
+            max_b_at_m: fig.peak.map(|p| p.at),
+            max_b_corner_exclusion_m: fig.corner_exclusion,
+            max_b_over_saturation: fig.b_sat.zip(fig.peak).map(|(bs, p)| p.b / bs),
+            saturated_fraction: fig.saturated_fraction,
+            peak_location: fig
+                .peak
+                .map(|p| operating_point::axial_position_words(case, p.at).to_string()),
         }
     });
     let points = opts
@@ -233,7 +197,11 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         None => None,
     };
     let vtk = if opts.vtk {
-        let (pa, ca, region) = axicore_solver::export::vtk::field_arrays(&model, &sol);
+        let (pa, ca, region) = axicore_solver::export::vtk::field_arrays(
+            &model,
+            &sol,
+            operating_point::SATURATED_FRACTION_OF_BSAT,
+        );
         Some(axicore_solver::export::vtk::vtu_bytes(
             model.mesh(),
             &pa,
@@ -256,13 +224,17 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
     let report = Report {
         title: case.title.clone(),
         dipole_moment_Am2: total,
-        core_dipole_moment_Am2: core_moment,
-        winding_dipole_moment_Am2: winding_moment,
+        core_dipole_moment_Am2: fig.core,
+        winding_dipole_moment_Am2: fig.winding,
         dipole_check_Am2: ball,
         dipole_estimator_difference: difference,
-        apparent_gain,
+        apparent_gain: fig.gain,
         b_origin_T: b_origin,
         inductance_H: windings.first().and_then(|w| w.self_inductance_H),
+        apparent_inductance_H: windings.first().and_then(|w| w.apparent_inductance_H),
+        converged: true,
+        newton_iterations: newton.as_ref().map_or(0, |n| n.iterations),
+        residual_history: newton.as_ref().map(|n| n.residual_history.clone()),
         inductance_matrix_H: inductance_matrix,
         energy_J: w_energy,
         max_core_b_T: core.as_ref().and_then(|c| c.max_b_T),

@@ -25,9 +25,18 @@ pub struct Report {
     pub apparent_gain: Option<f64>,
     /// B_z at r = 0, z = 0, T.
     pub b_origin_T: f64,
-    /// Self-inductance of the first winding, H.
+    /// Incremental (small-signal) self-inductance dΨ/dI of the first winding at the operating
+    /// point, H (the inductance, for linear cores).
     pub inductance_H: Option<f64>,
-    /// Inductance matrix of the windings, H (row i, column k: flux of i per ampere in k).
+    /// Apparent inductance Ψ/I of the first winding with every source on, H.
+    pub apparent_inductance_H: Option<f64>,
+    /// Whether the field solve converged (always true in a report: failures are errors).
+    pub converged: bool,
+    /// Newton iterations (0 for a linear solve).
+    pub newton_iterations: usize,
+    /// Relative residual before each Newton iteration and at the end (saturating cores only).
+    pub residual_history: Option<Vec<f64>>,
+    /// Incremental inductance matrix, H (row i, column k: dΨ_i/dI_k).
     pub inductance_matrix_H: Option<Vec<Vec<f64>>>,
     /// Stored field energy, J.
     pub energy_J: f64,
@@ -81,8 +90,10 @@ pub struct CoreReport {
     pub shape: String,
     /// Material name.
     pub material: String,
-    /// Relative permeability.
-    pub mu_r: f64,
+    /// Relative permeability at zero field.
+    pub initial_mu_r: f64,
+    /// Saturation flux density of the law (limit of B − μ0 H), T; None if linear.
+    pub saturation_b_T: Option<f64>,
     /// Meshed volume, m³.
     pub volume_m3: f64,
     /// Exact volume of the shape, m³.
@@ -97,6 +108,12 @@ pub struct CoreReport {
     pub max_b_at_m: Option<[f64; 2]>,
     /// Radius of the excluded zone around each sharp corner, m.
     pub max_b_corner_exclusion_m: f64,
+    /// Peak |B| over the saturation flux density.
+    pub max_b_over_saturation: Option<f64>,
+    /// Volume fraction of the core with |B| above 90 % of the saturation flux density.
+    pub saturated_fraction: Option<f64>,
+    /// Where the peak lies, in words: the core saturates first there.
+    pub peak_location: Option<String>,
 }
 
 /// Per-winding figures.
@@ -113,8 +130,10 @@ pub struct WindingReport {
     pub air_moment_Am2: f64,
     /// Flux linkage in the full solve (all windings and background), Wb.
     pub flux_linkage_Wb: f64,
-    /// Self-inductance, H (None at zero current).
+    /// Incremental self-inductance dΨ/dI at the operating point, H.
     pub self_inductance_H: Option<f64>,
+    /// Apparent inductance Ψ/I, H (None at zero current).
+    pub apparent_inductance_H: Option<f64>,
 }
 
 /// Field at a requested point.
@@ -200,8 +219,9 @@ pub fn line_csv(samples: &[PointField]) -> String {
 
 /// Cautions printed with every summary.
 pub const CAUTIONS: &str = "\
-Cautions: these are model estimates (axisymmetric, linear material, no hysteresis or
-temperature effects). Confirm by measurement before relying on them. Check winding
+Cautions: these are model estimates (axisymmetric, single-valued B–H law: no hysteresis,
+anisotropy, eddy currents or temperature effects; built-in material curves are typical
+values, not data of your lot). Confirm by measurement before relying on them. Check winding
 temperature rise and insulation limits separately. Flight hardware is subject to the
 applicable standards and to qualified review.";
 
@@ -213,8 +233,12 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     if let Some(c) = &r.core {
         let _ = writeln!(
             s,
-            "core      {} — {} (μr = {})",
-            c.shape, c.material, c.mu_r
+            "core      {} — {} (initial μr = {}{})",
+            c.shape,
+            c.material,
+            (c.initial_mu_r * 1e6).round() / 1e6,
+            c.saturation_b_T
+                .map_or(String::new(), |b| format!(", saturation {b} T"))
         );
     } else {
         let _ = writeln!(s, "core      none (air-core)");
@@ -283,15 +307,29 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
                 b, at[0], at[1], c.max_b_corner_exclusion_m
             );
         }
+        if let (Some(ratio), Some(frac), Some(place)) = (
+            c.max_b_over_saturation,
+            c.saturated_fraction,
+            c.peak_location.as_ref(),
+        ) {
+            let _ = writeln!(
+                s,
+                "  saturation               peak at {:.1} % of B_sat, in {place} (it saturates there first); {:.1} % of the core volume above 90 % of B_sat",
+                100.0 * ratio,
+                100.0 * frac
+            );
+        }
     }
     let _ = writeln!(s, "  stored energy            {:>14.6e} J", r.energy_J);
     for w in &r.windings {
         let _ = writeln!(
             s,
-            "  {}: flux linkage {:.6e} Wb, self-inductance {}",
+            "  {}: flux linkage {:.6e} Wb, incremental inductance {}, apparent Ψ/I {}",
             w.name,
             w.flux_linkage_Wb,
             w.self_inductance_H
+                .map_or("n/a".to_string(), |l| format!("{l:.6e} H")),
+            w.apparent_inductance_H
                 .map_or("n/a".to_string(), |l| format!("{l:.6e} H"))
         );
     }
@@ -303,6 +341,17 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
         );
     }
     let _ = writeln!(s);
+    if let Some(h) = &r.residual_history {
+        let _ = writeln!(
+            s,
+            "Solver    Newton converged in {} iterations; relative residuals {}",
+            r.newton_iterations,
+            h.iter()
+                .map(|v| format!("{v:.1e}"))
+                .collect::<Vec<_>>()
+                .join(" → ")
+        );
+    }
     let _ = writeln!(
         s,
         "Mesh      {} nodes, {} triangles (core {}, windings {}, air {}), {} unknowns",

@@ -27,8 +27,13 @@ pub struct Array {
 }
 
 /// The standard field arrays of a solution: point data (A_φ, flux function) and cell data
-/// (region, B, |B|, H, |H|, μr), all in SI units named in the array names.
-pub fn field_arrays(model: &Model, sol: &Solution) -> (Vec<Array>, Vec<Array>, Vec<i32>) {
+/// (region, B, |B|, H, |H|, secant μr, |B|/B_sat and a flag for |B| > `saturated_at`·B_sat,
+/// both 0 in materials without saturation), all in SI units named in the array names.
+pub fn field_arrays(
+    model: &Model,
+    sol: &Solution,
+    saturated_at: f64,
+) -> (Vec<Array>, Vec<Array>, Vec<i32>) {
     let mesh = model.mesh();
     let a_total = sol.nodal_a(model);
     let flux: Vec<f64> = mesh
@@ -56,9 +61,15 @@ pub fn field_arrays(model: &Model, sol: &Solution) -> (Vec<Array>, Vec<Array>, V
     let mut hv = Vec::with_capacity(3 * b.len());
     let mut hm = Vec::with_capacity(b.len());
     let mut mu = Vec::with_capacity(b.len());
+    let mut ratio = Vec::with_capacity(b.len());
+    let mut flag = Vec::with_capacity(b.len());
     for (e, be) in b.iter().enumerate() {
         let b2 = be[0] * be[0] + be[1] * be[1];
-        let nu = model.material(e).nu(b2);
+        let mat = model.material(e);
+        let nu = mat.nu(b2.sqrt());
+        let r = mat.saturation_b().map_or(0.0, |bs| b2.sqrt() / bs);
+        ratio.push(r);
+        flag.push(if r > saturated_at { 1.0 } else { 0.0 });
         bv.extend_from_slice(&[be[0], be[1], 0.0]);
         bm.push(b2.sqrt());
         hv.extend_from_slice(&[nu * be[0], nu * be[1], 0.0]);
@@ -90,6 +101,16 @@ pub fn field_arrays(model: &Model, sol: &Solution) -> (Vec<Array>, Vec<Array>, V
             name: "mu_r".into(),
             components: 1,
             values: mu,
+        },
+        Array {
+            name: "B_over_B_sat".into(),
+            components: 1,
+            values: ratio,
+        },
+        Array {
+            name: "saturated".into(),
+            components: 1,
+            values: flag,
         },
     ];
     let region = mesh.tags.iter().map(|&t| t as i32).collect();

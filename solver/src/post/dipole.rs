@@ -37,13 +37,40 @@ pub fn source_moments(model: &Model, sol: &Solution, j_elem: &[f64]) -> Vec<Regi
         for q in &g.qp {
             mc += 0.5 * q.r * j_elem[e] * q.dv; // (r/2) J dV
             let b = sol.b_q(model, e, q);
-            let nu = mat.nu(b[0] * b[0] + b[1] * b[1]);
+            let nu = mat.nu(b[0].hypot(b[1]));
             mm += (1.0 / MU0 - nu) * b[1] * q.dv; // M_z dV
         }
         out[tag].current += mc;
         out[tag].magnetization += mm;
     }
     out
+}
+
+/// Small-signal moment dm of a linearised response `delta` (fields per unit of the driving
+/// currents `j_elem`, A/m²) about the operating point `at`: dM = dB/μ0 − dH with the
+/// differential law dH = ν dB + (ν_d − ν)(b̂·dB) b̂ at the operating field B = |B| b̂.
+pub fn incremental_moment(model: &Model, at: &Solution, delta: &Solution, j_elem: &[f64]) -> f64 {
+    let mut m = 0.0;
+    for (e, g) in model.geometry().iter().enumerate() {
+        let mat = model.material(e);
+        for q in &g.qp {
+            m += 0.5 * q.r * j_elem[e] * q.dv;
+            if !mat.is_magnetic() {
+                continue;
+            }
+            let b = at.b_q(model, e, q);
+            let db = delta.b_q(model, e, q);
+            let bm = b[0].hypot(b[1]);
+            let nu = mat.nu(bm);
+            let mut dh_z = nu * db[1];
+            if bm > 0.0 {
+                let along = (b[0] * db[0] + b[1] * db[1]) / bm;
+                dh_z += (mat.nu_diff(bm) - nu) * along * b[1] / bm;
+            }
+            m += (db[1] / MU0 - dh_z) * q.dv;
+        }
+    }
+    m
 }
 
 /// The moment from the ball identity on a sphere of radius `radius` centred at the origin.

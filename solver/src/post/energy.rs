@@ -10,7 +10,7 @@ pub fn energy(model: &Model, sol: &Solution) -> f64 {
         let mat = model.material(e);
         for q in &g.qp {
             let b = sol.b_q(model, e, q);
-            w += mat.energy_density(b[0] * b[0] + b[1] * b[1]) * q.dv;
+            w += mat.energy_density(b[0].hypot(b[1])) * q.dv;
         }
     }
     w

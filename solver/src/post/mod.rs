@@ -5,3 +5,4 @@ pub mod energy;
 pub mod flux;
 pub mod peak;
 pub mod probe;
+pub mod saturation;

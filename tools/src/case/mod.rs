@@ -8,7 +8,7 @@ mod materials;
 mod parse;
 mod validate;
 
-pub use materials::{builtin_materials, BuiltinMaterial};
+pub use materials::{builtin_materials, find as find_material, BuiltinMaterial};
 pub use parse::{parse_case, read_case_file};
 pub use validate::{AUTO_AIR_FACTOR, BALL_FACTOR, MIN_AIR_FACTOR};
 
@@ -29,6 +29,8 @@ pub struct Case {
     pub air_radius: Option<f64>,
     /// Mesh controls.
     pub mesh: MeshControls,
+    /// Stopping rules of the nonlinear iteration (used only with saturating materials).
+    pub newton: axicore_solver::NewtonSettings,
 }
 
 /// The core: shape, axial position of its centre and material.
@@ -38,10 +40,10 @@ pub struct Core {
     pub shape: CoreShape,
     /// Axial position of the centre, in m.
     pub centre: f64,
-    /// Material name as given (or "custom").
+    /// Material name as given, or what kind of custom law it is.
     pub material_name: String,
-    /// Relative permeability.
-    pub mu_r: f64,
+    /// The magnetic law of the core (linear or saturating).
+    pub material: axicore_solver::Material,
 }
 
 /// Core shapes, all dimensions in m.

@@ -1,6 +1,10 @@
 //! Reading a case from TOML text with strict key checking and unit-aware values.
 
 use std::path::Path;
+use std::sync::Arc;
+
+use axicore_solver::material::{BhTable, Brauer, SaturationLaw};
+use axicore_solver::{Material, NewtonSettings};
 
 use toml::{Table, Value};
 
@@ -31,7 +35,7 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         }
     })?;
     let top = Section::new(file, String::new(), &root);
-    top.only(&["title", "core", "winding", "background", "air", "mesh"])?;
+    top.only(&["title", "core", "winding", "background", "air", "mesh", "solver"])?;
     let title = top
         .string("title")?
         .unwrap_or_else(|| "untitled case".into());
@@ -76,6 +80,10 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         Some(s) => parse_mesh(&s)?,
         None => MeshControls::default(),
     };
+    let newton = match top.table("solver")? {
+        Some(s) => parse_solver(&s)?,
+        None => NewtonSettings::default(),
+    };
     let case = Case {
         title,
         core,
@@ -83,6 +91,7 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         background_b,
         air_radius,
         mesh,
+        newton,
     };
     validate(&case, file)?;
     Ok(case)
@@ -92,7 +101,7 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
     let shape_name = s
         .string("shape")?
         .ok_or_else(|| s.fault("shape", "missing (rod, tube, sphere or spheroid)"))?;
-    let common = ["shape", "centre", "material", "mu_r"];
+    let common = ["shape", "centre", "material", "mu_r", "bh_curve", "law"];
     let with = |extra: &[&'static str]| -> Vec<&'static str> {
         common
             .iter()
@@ -140,44 +149,147 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
         }
     };
     let centre = s.quantity("centre", Dimension::Length)?.unwrap_or(0.0);
-    let (material_name, mu_r) = match (
-        s.string("material")?,
-        s.quantity("mu_r", Dimension::Dimensionless)?,
-    ) {
-        (Some(_), Some(_)) => return Err(s.fault("mu_r", "give either material or mu_r, not both")),
-        (None, None) => {
-            return Err(s.fault("material", "missing (a built-in name or mu_r = number)"))
-        }
-        (None, Some(mu)) => ("custom".to_string(), mu),
-        (Some(name), None) => match materials::find(&name) {
-            Some(m) => (name, m.mu_r),
-            None => {
-                let names: Vec<&str> = materials::builtin_materials()
-                    .iter()
-                    .map(|m| m.name)
-                    .collect();
-                return Err(s.fault(
-                    "material",
-                    &format!(
-                        "unknown material '{name}'{}; built-in: {}",
-                        hint(&name, &names),
-                        names.join(", ")
-                    ),
-                ));
-            }
-        },
-    };
-    if mu_r < 1.0 {
-        return Err(s.fault(
-            "mu_r",
-            &format!("relative permeability {mu_r} is below 1 (not a ferromagnetic or paramagnetic core)"),
-        ));
-    }
+    let (material_name, material) = parse_core_material(s)?;
     Ok(Core {
         shape,
         centre,
         material_name,
-        mu_r,
+        material,
+    })
+}
+
+/// Exactly one of: `material` (built-in name), `mu_r` (linear), `[core.bh_curve]` (table),
+/// `[core.law]` (analytic law).
+fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
+    let given: Vec<&str> = ["material", "mu_r", "bh_curve", "law"]
+        .into_iter()
+        .filter(|k| s.table.contains_key(*k))
+        .collect();
+    match given.as_slice() {
+        [] => Err(s.fault(
+            "material",
+            "missing (a built-in name, mu_r = number, [core.bh_curve] or [core.law])",
+        )),
+        [_, second, ..] => Err(s.fault(
+            second,
+            &format!("give only one of material, mu_r, bh_curve, law (found {})", given.join(" and ")),
+        )),
+        ["mu_r"] => {
+            let mu_r = s.quantity("mu_r", Dimension::Dimensionless)?.unwrap_or(1.0);
+            if mu_r < 1.0 {
+                return Err(s.fault(
+                    "mu_r",
+                    &format!("relative permeability {mu_r} is below 1 (not a ferromagnetic or paramagnetic core)"),
+                ));
+            }
+            Ok((format!("linear, μr = {mu_r}"), Material::Linear { mu_r }))
+        }
+        ["material"] => {
+            let name = s.string("material")?.unwrap_or_default();
+            match materials::find(&name) {
+                Some(m) => Ok((name, m.material())),
+                None => {
+                    let names: Vec<&str> = materials::builtin_materials()
+                        .iter()
+                        .map(|m| m.name)
+                        .collect();
+                    Err(s.fault(
+                        "material",
+                        &format!(
+                            "unknown material '{name}'{}; built-in: {}",
+                            hint(&name, &names),
+                            names.join(", ")
+                        ),
+                    ))
+                }
+            }
+        }
+        ["bh_curve"] => {
+            let t = s.table("bh_curve")?.ok_or_else(|| s.fault("bh_curve", "must be a table"))?;
+            let points = bh_points(&t)?;
+            let table = BhTable::new(&points).map_err(|e| t.fault("b", &e.to_string()))?;
+            Ok((
+                "B–H table".into(),
+                Material::Saturable(Arc::new(SaturationLaw::Table(table))),
+            ))
+        }
+        _ => {
+            let t = s.table("law")?.ok_or_else(|| s.fault("law", "must be a table"))?;
+            let law = parse_law(&t)?;
+            let mat = Material::Saturable(Arc::new(law));
+            mat.validate().map_err(|e| t.fault("kind", &e.to_string()))?;
+            Ok((t.string("kind")?.unwrap_or_default(), mat))
+        }
+    }
+}
+
+/// Points [H, B] of a `[core.bh_curve]`: inline arrays `h`, `b` or a CSV `file`.
+fn bh_points(t: &Section) -> Result<Vec<[f64; 2]>, CaseError> {
+    t.only(&["h", "b", "file"])?;
+    if let Some(file) = t.string("file")? {
+        if t.table.contains_key("h") || t.table.contains_key("b") {
+            return Err(t.fault("file", "give either file or h and b, not both"));
+        }
+        let base = Path::new(t.file).parent().unwrap_or(Path::new("."));
+        let path = base.join(&file);
+        let text = std::fs::read_to_string(&path)
+            .map_err(|e| t.fault("file", &format!("cannot read {}: {e}", path.display())))?;
+        return crate::bh_csv::parse(&text)
+            .map_err(|e| t.fault("file", &format!("{}: {e}", path.display())));
+    }
+    let h = t.quantity_list("h", Dimension::FieldStrength)?;
+    let b = t.quantity_list("b", Dimension::FluxDensity)?;
+    if h.len() != b.len() {
+        return Err(t.fault(
+            "b",
+            &format!("has {} values but h has {}", b.len(), h.len()),
+        ));
+    }
+    Ok(h.into_iter().zip(b).map(|(h, b)| [h, b]).collect())
+}
+
+/// An analytic law from `[core.law]`.
+fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
+    let kind = t
+        .string("kind")?
+        .ok_or_else(|| t.fault("kind", "missing (frohlich-kennelly, arctan, knee or brauer)"))?;
+    let kinds = ["frohlich-kennelly", "arctan", "knee", "brauer"];
+    let required = |key: &str, dim| t.quantity(key, dim)?.ok_or_else(|| t.fault(key, "missing"));
+    Ok(match kind.as_str() {
+        "frohlich-kennelly" | "arctan" => {
+            t.only(&["kind", "saturation", "initial_mu_r"])?;
+            let js = required("saturation", Dimension::FluxDensity)?;
+            let mu_ri = required("initial_mu_r", Dimension::Dimensionless)?;
+            if kind == "arctan" {
+                SaturationLaw::Arctan { js, mu_ri }
+            } else {
+                SaturationLaw::FrohlichKennelly { js, mu_ri }
+            }
+        }
+        "knee" => {
+            t.only(&["kind", "saturation", "initial_mu_r", "max_mu_r"])?;
+            SaturationLaw::Knee {
+                js: required("saturation", Dimension::FluxDensity)?,
+                mu_i: required("initial_mu_r", Dimension::Dimensionless)?,
+                mu_max: required("max_mu_r", Dimension::Dimensionless)?,
+            }
+        }
+        "brauer" => {
+            t.only(&["kind", "k1", "k2", "k3"])?;
+            let law = Brauer::new(
+                required("k1", Dimension::Dimensionless)?,
+                required("k2", Dimension::Dimensionless)?,
+                required("k3", Dimension::Dimensionless)?,
+            )
+            .map_err(|e| t.fault("k1", &e.to_string()))?;
+            SaturationLaw::Brauer(law)
+        }
+        other => {
+            return Err(t.fault(
+                "kind",
+                &format!("unknown law '{other}'{} ({})", hint(other, &kinds), kinds.join(", ")),
+            ))
+        }
     })
 }
 
@@ -215,6 +327,30 @@ fn parse_winding(s: &Section, index: usize) -> Result<Winding, CaseError> {
         outer_radius: s.required_positive("outer_radius", Dimension::Length)?,
         length: s.required_positive("length", Dimension::Length)?,
         centre: s.quantity("centre", Dimension::Length)?.unwrap_or(0.0),
+    })
+}
+
+fn parse_solver(s: &Section) -> Result<NewtonSettings, CaseError> {
+    s.only(&["residual_tolerance", "update_tolerance", "max_iterations"])?;
+    let d = NewtonSettings::default();
+    let tol = |key: &str, default: f64| -> Result<f64, CaseError> {
+        match s.positive(key, Dimension::Dimensionless)? {
+            Some(v) if v >= 1.0 => Err(s.fault(key, &format!("{v} must be below 1 (relative)"))),
+            Some(v) => Ok(v),
+            None => Ok(default),
+        }
+    };
+    let max_iterations = match s.positive("max_iterations", Dimension::Dimensionless)? {
+        Some(n) if n.fract() != 0.0 || n > 1000.0 => {
+            return Err(s.fault("max_iterations", "must be a whole number ≤ 1000"))
+        }
+        Some(n) => n as usize,
+        None => d.max_iterations,
+    };
+    Ok(NewtonSettings {
+        residual_tol: tol("residual_tolerance", d.residual_tol)?,
+        update_tol: tol("update_tolerance", d.update_tol)?,
+        max_iterations,
     })
 }
 
@@ -341,6 +477,34 @@ impl<'a> Section<'a> {
             return Err(self.fault(key, "must be finite"));
         }
         Ok(Some(v))
+    }
+
+    /// An array of quantities (numbers in SI or strings with units).
+    fn quantity_list(&self, key: &str, dim: Dimension) -> Result<Vec<f64>, CaseError> {
+        let Some(v) = self.table.get(key) else {
+            return Err(self.fault(key, "missing"));
+        };
+        let Value::Array(items) = v else {
+            return Err(self.fault(key, &format!("must be an array of {dim}")));
+        };
+        items
+            .iter()
+            .enumerate()
+            .map(|(i, item)| {
+                let at = format!("{key}[{}]", i + 1);
+                let x = match item {
+                    Value::Integer(n) => *n as f64,
+                    Value::Float(f) => *f,
+                    Value::String(s) => units::parse(s, dim).map_err(|e| self.fault(&at, &e))?,
+                    _ => return Err(self.fault(&at, &format!("must be {dim}"))),
+                };
+                if x.is_finite() {
+                    Ok(x)
+                } else {
+                    Err(self.fault(&at, "must be finite"))
+                }
+            })
+            .collect()
     }
 
     fn positive(&self, key: &str, dim: Dimension) -> Result<Option<f64>, CaseError> {

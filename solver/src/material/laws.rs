@@ -1,0 +1,410 @@
+//! Saturating laws: a tabulated curve and analytic laws used in practice.
+//!
+//! Laws given naturally as B(H) (Fröhlich–Kennelly, arctangent, knee) are inverted for H(B)
+//! with a safeguarded Newton iteration to rounding accuracy; laws given as H(B) (table,
+//! Brauer) are inverted the other way only for output ([`SaturationLaw::b_of_h`]).
+
+use super::invert::solve_increasing;
+use super::table::BhTable;
+use crate::{SolverError, MU0};
+
+/// A single-valued, isotropic, strictly monotone magnetisation law.
+#[derive(Debug, Clone, PartialEq)]
+pub enum SaturationLaw {
+    /// A B–H table made smooth and monotone (see [`BhTable`]).
+    Table(BhTable),
+    /// Fröhlich–Kennelly with the vacuum asymptote: B = μ0 H + Js H/(Hk + H), where
+    /// Hk = Js/(μ0 (μri − 1)) gives the initial relative permeability μri.
+    FrohlichKennelly {
+        /// Saturation polarisation Js = μ0 Ms in T.
+        js: f64,
+        /// Initial relative permeability.
+        mu_ri: f64,
+    },
+    /// Arctangent law: B = μ0 H + (2Js/π)·atan(π μ0 (μri − 1) H / (2Js)).
+    Arctan {
+        /// Saturation polarisation in T.
+        js: f64,
+        /// Initial relative permeability.
+        mu_ri: f64,
+    },
+    /// Brauer's reluctivity ν(B²) = k1·exp(k2 B²) + k3 (IEEE Trans. Magn. MAG-11, 81, 1975),
+    /// continued with the vacuum slope from the flux density where its differential
+    /// reluctivity reaches 1/μ0, so that it stays physical (μr ≥ 1) at any field.
+    Brauer(Brauer),
+    /// Our three-parameter rational law with a knee: B = μ0 H + Js·(1 − 1/(1 + a x + x²)),
+    /// x = H/Hk, where a and Hk are fixed by the initial and the maximum relative permeability
+    /// (max of B/(μ0 H)): (μi − 1)/(μmax − 1) = a(2 − a), Hk = Js/(μ0 (μmax − 1)(2 − a)).
+    /// It reproduces Js, μi and μmax exactly, is C^∞ and strictly increasing.
+    Knee {
+        /// Saturation polarisation in T.
+        js: f64,
+        /// Initial relative permeability.
+        mu_i: f64,
+        /// Maximum relative permeability (≥ μi).
+        mu_max: f64,
+    },
+}
+
+/// Brauer's coefficients with the flux density where the vacuum continuation starts.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Brauer {
+    k1: f64,
+    k2: f64,
+    k3: f64,
+    knee: f64,
+}
+
+impl Brauer {
+    /// The law ν(B²) = k1·exp(k2 B²) + k3 with k1, k3 in m/H and k2 in 1/T².
+    pub fn new(k1: f64, k2: f64, k3: f64) -> Result<Self, SolverError> {
+        let ok = |v: f64| v.is_finite() && v >= 0.0;
+        if !(ok(k1) && ok(k2) && ok(k3) && k3 > 0.0) {
+            return Err(SolverError::BadMaterial(format!(
+                "Brauer coefficients need k1 ≥ 0, k2 ≥ 0, k3 > 0 (got {k1}, {k2}, {k3})"
+            )));
+        }
+        if (k1 + k3) * MU0 > 1.0 {
+            return Err(SolverError::BadMaterial(format!(
+                "Brauer initial reluctivity k1 + k3 = {} m/H exceeds 1/μ0 (μr < 1)",
+                k1 + k3
+            )));
+        }
+        if k1 * k2 == 0.0 {
+            return Err(SolverError::BadMaterial(
+                "Brauer law with k1·k2 = 0 never saturates; use a linear μr".into(),
+            ));
+        }
+        Ok(Self {
+            k1,
+            k2,
+            k3,
+            knee: brauer_knee(k1, k2, k3),
+        })
+    }
+
+    /// The coefficients (k1 in m/H, k2 in 1/T², k3 in m/H).
+    pub fn coefficients(&self) -> [f64; 3] {
+        [self.k1, self.k2, self.k3]
+    }
+
+    fn h(&self, b: f64) -> f64 {
+        let h = |b: f64| (self.k1 * (self.k2 * b * b).exp() + self.k3) * b;
+        if b <= self.knee {
+            h(b)
+        } else {
+            h(self.knee) + (b - self.knee) / MU0
+        }
+    }
+
+    fn nu_diff(&self, b: f64) -> f64 {
+        if b >= self.knee {
+            1.0 / MU0
+        } else {
+            let e = self.k1 * (self.k2 * b * b).exp();
+            self.k3 + e * (1.0 + 2.0 * self.k2 * b * b)
+        }
+    }
+
+    fn energy_density(&self, b: f64) -> f64 {
+        let (k1, k2, k3) = (self.k1, self.k2, self.k3);
+        let w = |b: f64| k1 * (k2 * b * b).exp_m1() / (2.0 * k2) + 0.5 * k3 * b * b;
+        let bx = self.knee;
+        if b <= bx {
+            w(b)
+        } else {
+            w(bx) + self.h(bx) * (b - bx) + 0.5 * (b - bx) * (b - bx) / MU0
+        }
+    }
+}
+
+fn bad(msg: String) -> Result<(), SolverError> {
+    Err(SolverError::BadMaterial(msg))
+}
+
+impl SaturationLaw {
+    /// Checks the parameters.
+    pub fn validate(&self) -> Result<(), SolverError> {
+        let pos = |v: f64| v.is_finite() && v > 0.0;
+        match *self {
+            SaturationLaw::Table(_) => Ok(()),
+            SaturationLaw::FrohlichKennelly { js, mu_ri } | SaturationLaw::Arctan { js, mu_ri } => {
+                if !pos(js) {
+                    return bad(format!("saturation polarisation {js} T must be > 0"));
+                }
+                if !(mu_ri.is_finite() && mu_ri > 1.0) {
+                    return bad(format!("initial relative permeability {mu_ri} must be > 1"));
+                }
+                Ok(())
+            }
+            SaturationLaw::Brauer(_) => Ok(()),
+            SaturationLaw::Knee { js, mu_i, mu_max } => {
+                if !pos(js) {
+                    return bad(format!("saturation polarisation {js} T must be > 0"));
+                }
+                if !(mu_i.is_finite() && mu_i > 1.0) {
+                    return bad(format!("initial relative permeability {mu_i} must be > 1"));
+                }
+                if !(mu_max.is_finite() && mu_max >= mu_i) {
+                    return bad(format!(
+                        "maximum relative permeability {mu_max} must be ≥ the initial {mu_i}"
+                    ));
+                }
+                Ok(())
+            }
+        }
+    }
+
+    /// B in T and dB/dH in H/m at field strength `h` ≥ 0, for laws given as B(H).
+    fn b_and_slope(&self, h: f64) -> (f64, f64) {
+        match *self {
+            SaturationLaw::FrohlichKennelly { js, mu_ri } => {
+                let hk = js / (MU0 * (mu_ri - 1.0));
+                let d = hk + h;
+                (MU0 * h + js * h / d, MU0 + js * hk / (d * d))
+            }
+            SaturationLaw::Arctan { js, mu_ri } => {
+                let c = std::f64::consts::FRAC_PI_2 * MU0 * (mu_ri - 1.0) / js;
+                let j = js / std::f64::consts::FRAC_PI_2 * (c * h).atan();
+                (MU0 * h + j, MU0 + MU0 * (mu_ri - 1.0) / (1.0 + (c * h) * (c * h)))
+            }
+            SaturationLaw::Knee { js, mu_i, mu_max } => {
+                let (a, hk) = knee_shape(js, mu_i, mu_max);
+                let x = h / hk;
+                let q = 1.0 + a * x + x * x;
+                let j = js * (a * x + x * x) / q;
+                (MU0 * h + j, MU0 + js * (a + 2.0 * x) / (q * q * hk))
+            }
+            SaturationLaw::Table(_) | SaturationLaw::Brauer(_) => {
+                let b = self.b_of_h(h);
+                (b, 1.0 / self.nu_diff(b))
+            }
+        }
+    }
+
+    /// H in A/m at |B| = `b` (T).
+    pub fn h(&self, b: f64) -> f64 {
+        match self {
+            SaturationLaw::Table(t) => t.h(b),
+            SaturationLaw::FrohlichKennelly { .. } => self.nu(b) * b,
+            SaturationLaw::Brauer(l) => l.h(b),
+            _ => {
+                if b <= 0.0 {
+                    return 0.0;
+                }
+                // B ≥ μ0 H bounds H from above; the initial permeability gives the guess.
+                let guess = b * self.nu(0.0);
+                solve_increasing(|h| self.b_and_slope(h), b, 0.0, b / MU0, guess)
+            }
+        }
+    }
+
+    /// Reluctivity H/B in m/H (its limit at b = 0).
+    pub fn nu(&self, b: f64) -> f64 {
+        match *self {
+            SaturationLaw::Table(ref t) => t.nu(b),
+            SaturationLaw::FrohlichKennelly { js, mu_ri } => {
+                // Root of μ0 H² + (μ0 Hk + Js − B) H − B Hk = 0, in the form without cancellation.
+                let hk = js / (MU0 * (mu_ri - 1.0));
+                let p = MU0 * hk + js - b;
+                let s = (p * p + 4.0 * MU0 * b * hk).sqrt();
+                if p >= 0.0 {
+                    2.0 * hk / (p + s)
+                } else {
+                    (s - p) / (2.0 * MU0 * b)
+                }
+            }
+            SaturationLaw::Arctan { mu_ri, .. } | SaturationLaw::Knee { mu_i: mu_ri, .. }
+                if b <= 0.0 =>
+            {
+                1.0 / (MU0 * mu_ri)
+            }
+            SaturationLaw::Brauer(ref l) if b <= 0.0 => l.k1 + l.k3,
+            _ => self.h(b) / b,
+        }
+    }
+
+    /// Differential reluctivity dH/dB in m/H.
+    pub fn nu_diff(&self, b: f64) -> f64 {
+        match *self {
+            SaturationLaw::Table(ref t) => t.nu_diff(b),
+            SaturationLaw::Brauer(ref l) => l.nu_diff(b),
+            _ => 1.0 / self.b_and_slope(self.h(b)).1,
+        }
+    }
+
+    /// Energy density ∫_0^b H dB in J/m³.
+    pub fn energy_density(&self, b: f64) -> f64 {
+        match *self {
+            SaturationLaw::Table(ref t) => t.energy_density(b),
+            SaturationLaw::Brauer(ref l) => l.energy_density(b),
+            _ => {
+                // Legendre transform: w(B) = B·H − ∫_0^H B dh, the co-energy in closed form.
+                let h = self.h(b);
+                b * h - self.coenergy_density(h)
+            }
+        }
+    }
+
+    /// Co-energy density ∫_0^H B dh in J/m³ for the laws given as B(H).
+    fn coenergy_density(&self, h: f64) -> f64 {
+        let vacuum = 0.5 * MU0 * h * h;
+        match *self {
+            SaturationLaw::FrohlichKennelly { js, mu_ri } => {
+                let hk = js / (MU0 * (mu_ri - 1.0));
+                vacuum + js * (h - hk * (h / hk).ln_1p())
+            }
+            SaturationLaw::Arctan { js, mu_ri } => {
+                let c = std::f64::consts::FRAC_PI_2 * MU0 * (mu_ri - 1.0) / js;
+                let ch = c * h;
+                let int_atan = h * ch.atan() - (ch * ch).ln_1p() / (2.0 * c);
+                vacuum + js / std::f64::consts::FRAC_PI_2 * int_atan
+            }
+            SaturationLaw::Knee { js, mu_i, mu_max } => {
+                let (a, hk) = knee_shape(js, mu_i, mu_max);
+                let x = h / hk;
+                let d = (4.0 - a * a).sqrt();
+                let int_q = 2.0 / d * (((2.0 * x + a) / d).atan() - (a / d).atan());
+                vacuum + js * (h - hk * int_q)
+            }
+            SaturationLaw::Table(_) | SaturationLaw::Brauer(_) => {
+                unreachable!("co-energy is only used for laws given as B(H)")
+            }
+        }
+    }
+
+    /// |B| in T at field strength `h` ≥ 0 (A/m).
+    pub fn b_of_h(&self, h: f64) -> f64 {
+        match self {
+            SaturationLaw::Table(_) | SaturationLaw::Brauer(_) => {
+                if h <= 0.0 {
+                    return 0.0;
+                }
+                // B ≥ μ0 H from below; above, widen from the initial permeability (a curve
+                // whose permeability rises first may need more).
+                let lo = MU0 * h;
+                let mut hi = h / self.nu(0.0);
+                while self.h(hi) < h {
+                    hi *= 2.0;
+                }
+                solve_increasing(|b| (self.h(b), self.nu_diff(b)), h, lo, hi, lo)
+            }
+            _ => self.b_and_slope(h).0,
+        }
+    }
+
+    /// Saturation polarisation: the limit of B − μ0 H in T.
+    pub fn saturation_b(&self) -> Option<f64> {
+        match *self {
+            SaturationLaw::Table(ref t) => Some(t.saturation_b()),
+            SaturationLaw::FrohlichKennelly { js, .. }
+            | SaturationLaw::Arctan { js, .. }
+            | SaturationLaw::Knee { js, .. } => Some(js),
+            SaturationLaw::Brauer(ref l) => Some(l.knee - MU0 * l.h(l.knee)),
+        }
+    }
+}
+
+/// Shape parameters (a, Hk in A/m) of the knee law.
+fn knee_shape(js: f64, mu_i: f64, mu_max: f64) -> (f64, f64) {
+    let ratio = ((mu_i - 1.0) / (mu_max - 1.0)).min(1.0);
+    let a = 1.0 - (1.0 - ratio).sqrt();
+    (a, js / (MU0 * (mu_max - 1.0) * (2.0 - a)))
+}
+
+/// Flux density where Brauer's differential reluctivity reaches 1/μ0 (it grows monotonically).
+fn brauer_knee(k1: f64, k2: f64, k3: f64) -> f64 {
+    let nu_d = |b: f64| k3 + k1 * (k2 * b * b).exp() * (1.0 + 2.0 * k2 * b * b);
+    let target = 1.0 / MU0;
+    let mut hi = 1.0;
+    while nu_d(hi) < target {
+        hi *= 2.0;
+    }
+    let slope = |b: f64| {
+        let e = k1 * (k2 * b * b).exp();
+        (nu_d(b), e * k2 * b * (6.0 + 4.0 * k2 * b * b))
+    };
+    solve_increasing(slope, target, 0.0, hi, hi)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn laws() -> Vec<SaturationLaw> {
+        vec![
+            SaturationLaw::FrohlichKennelly {
+                js: 1.5,
+                mu_ri: 2000.0,
+            },
+            SaturationLaw::Arctan {
+                js: 1.5,
+                mu_ri: 1000.0,
+            },
+            SaturationLaw::Knee {
+                js: 0.8,
+                mu_i: 30000.0,
+                mu_max: 200000.0,
+            },
+            // Coefficients of the order of Brauer's 1975 steel fit (demo values).
+            SaturationLaw::Brauer(Brauer::new(3.8, 2.17, 396.2).unwrap()),
+        ]
+    }
+
+    #[test]
+    fn each_law_is_strictly_monotone_with_consistent_derivative_and_energy() {
+        for law in laws() {
+            law.validate().unwrap();
+            let mut prev = -1.0;
+            for i in 1..400 {
+                let b = 3.0 * i as f64 / 400.0;
+                let h = law.h(b);
+                assert!(h > prev, "{law:?} at {b}");
+                prev = h;
+                let db = 1e-6 * b;
+                let fd = (law.h(b + db) - law.h(b - db)) / (2.0 * db);
+                let nd = law.nu_diff(b);
+                assert!((fd - nd).abs() < 1e-5 * nd, "{law:?} b={b} {fd} {nd}");
+                let fw = (law.energy_density(b + db) - law.energy_density(b - db)) / (2.0 * db);
+                assert!((fw - h).abs() < 1e-5 * h, "{law:?} b={b} {fw} {h}");
+                assert!(nd * MU0 <= 1.0 + 1e-12 && law.nu(b) * MU0 <= 1.0 + 1e-12);
+            }
+        }
+    }
+
+    #[test]
+    fn b_of_h_inverts_h_of_b() {
+        for law in laws() {
+            for b in [1e-4, 0.1, 0.7, 1.2, 2.5, 10.0] {
+                let back = law.b_of_h(law.h(b));
+                assert!((back - b).abs() < 1e-12 * b, "{law:?} {b} {back}");
+            }
+        }
+    }
+
+    #[test]
+    fn knee_law_has_the_stated_initial_and_maximum_permeability() {
+        let (js, mu_i, mu_max) = (0.8, 30000.0, 200000.0);
+        let law = SaturationLaw::Knee { js, mu_i, mu_max };
+        let mu0 = 1.0 / (MU0 * law.nu(0.0));
+        assert!((mu0 - mu_i).abs() < 1e-9 * mu_i);
+        let peak = (1..20000)
+            .map(|i| {
+                let h = 0.01 * i as f64;
+                law.b_of_h(h) / (MU0 * h)
+            })
+            .fold(0.0, f64::max);
+        assert!((peak - mu_max).abs() < 1e-4 * mu_max, "{peak}");
+    }
+
+    #[test]
+    fn laws_tend_to_the_vacuum_slope_above_saturation() {
+        for law in laws() {
+            let js = law.saturation_b().unwrap();
+            let b = js + 50.0;
+            assert!((law.nu_diff(b) * MU0 - 1.0).abs() < 1e-3, "{law:?}");
+            let j = b - MU0 * law.h(b);
+            assert!((j - js).abs() < 2e-3 * js, "{law:?} {j} {js}");
+        }
+    }
+}

@@ -1,0 +1,118 @@
+//! Magnetic materials as single-valued, isotropic laws H(|B|): the solver asks for the
+//! reluctivity ν = H/B, the differential reluctivity ν_d = dH/dB and the energy density, and
+//! nothing here knows of meshes.
+//!
+//! Every law is strictly monotone with a continuous derivative, so the magnetic energy is a
+//! convex function of B and Newton's tangent ν I + (ν_d − ν) b̂ b̂ᵀ is symmetric positive
+//! definite (see [`crate::nonlinear`]).
+
+mod invert;
+mod laws;
+mod table;
+
+use std::sync::Arc;
+
+pub use laws::{Brauer, SaturationLaw};
+pub use table::BhTable;
+
+use crate::{SolverError, MU0};
+
+/// A magnetic material of a region.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Material {
+    /// Linear, isotropic: B = μ0 μr H with constant relative permeability μr ≥ 1.
+    Linear {
+        /// Relative permeability (dimensionless).
+        mu_r: f64,
+    },
+    /// A saturating law H(|B|) (shared, as one law may fill many regions).
+    Saturable(Arc<SaturationLaw>),
+}
+
+impl Material {
+    /// Vacuum (and air, to far better than any model accuracy here).
+    pub const AIR: Material = Material::Linear { mu_r: 1.0 };
+
+    /// Checks the parameters.
+    pub fn validate(&self) -> Result<(), SolverError> {
+        match self {
+            Material::Linear { mu_r } => {
+                if !mu_r.is_finite() || *mu_r < 1.0 {
+                    return Err(SolverError::BadMaterial(format!(
+                        "relative permeability {mu_r} must be finite and ≥ 1"
+                    )));
+                }
+                Ok(())
+            }
+            Material::Saturable(law) => law.validate(),
+        }
+    }
+
+    /// Magnetic field strength H in A/m at flux density |B| = `b` (T).
+    #[inline]
+    pub fn h(&self, b: f64) -> f64 {
+        match self {
+            Material::Linear { mu_r } => b / (MU0 * mu_r),
+            Material::Saturable(law) => law.h(b),
+        }
+    }
+
+    /// Reluctivity ν = H/B in m/H at |B| = `b` (T); the initial value at b = 0.
+    #[inline]
+    pub fn nu(&self, b: f64) -> f64 {
+        match self {
+            Material::Linear { mu_r } => 1.0 / (MU0 * mu_r),
+            Material::Saturable(law) => law.nu(b),
+        }
+    }
+
+    /// Differential reluctivity ν_d = dH/dB in m/H at |B| = `b` (T).
+    #[inline]
+    pub fn nu_diff(&self, b: f64) -> f64 {
+        match self {
+            Material::Linear { mu_r } => 1.0 / (MU0 * mu_r),
+            Material::Saturable(law) => law.nu_diff(b),
+        }
+    }
+
+    /// Energy density ∫_0^B H dB in J/m³ at |B| = `b` (T).
+    #[inline]
+    pub fn energy_density(&self, b: f64) -> f64 {
+        match self {
+            Material::Linear { mu_r } => 0.5 * b * b / (MU0 * mu_r),
+            Material::Saturable(law) => law.energy_density(b),
+        }
+    }
+
+    /// Flux density |B| in T at field strength `h` ≥ 0 (A/m): the inverse of [`Self::h`].
+    pub fn b_of_h(&self, h: f64) -> f64 {
+        match self {
+            Material::Linear { mu_r } => MU0 * mu_r * h,
+            Material::Saturable(law) => law.b_of_h(h),
+        }
+    }
+
+    /// Saturation flux density in T: the limit of B − μ0 H (the saturation polarisation),
+    /// `None` for linear laws and for laws without a saturation asymptote.
+    pub fn saturation_b(&self) -> Option<f64> {
+        match self {
+            Material::Linear { .. } => None,
+            Material::Saturable(law) => law.saturation_b(),
+        }
+    }
+
+    /// Relative permeability at the origin, 1/(μ0 ν(0)).
+    pub fn initial_mu_r(&self) -> f64 {
+        1.0 / (MU0 * self.nu(0.0))
+    }
+
+    /// Whether ν is independent of B (one linear solve suffices).
+    pub fn is_linear(&self) -> bool {
+        matches!(self, Material::Linear { .. })
+    }
+
+    /// Whether the material is anything but vacuum.
+    pub fn is_magnetic(&self) -> bool {
+        *self != Material::AIR
+    }
+}

@@ -1,0 +1,332 @@
+//! Saturating materials: Newton–Raphson on R(a) = 0 with the consistent tangent and a line
+//! search on the convex magnetic energy (see [`crate::weak_form`] for R and T).
+//!
+//! Why this is robust: R is the gradient of the energy Π(a) = ∫ w(|B|) − ν0 B0·B dV − ∫ J A dV,
+//! which is strictly convex for every monotone law, and T is its Hessian (SPD, so one sparse
+//! Cholesky pattern serves every iteration). A full Newton step is taken when it lowers ‖R‖;
+//! otherwise the step length minimises Π along the Newton direction, found as the root of the
+//! increasing function g(α) = R(a + α δ)·δ. Either way Π decreases, so the iteration cannot
+//! diverge, and near the solution full steps give quadratic convergence.
+
+use rayon::prelude::*;
+
+use crate::cholesky::SpdFactor;
+use crate::dofs::FIXED;
+use crate::field::Solution;
+use crate::pattern::NO_SLOT;
+use crate::solve::Model;
+use crate::{assembly, weak_form, SolverError};
+
+/// Stopping rules of the Newton iteration.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct NewtonSettings {
+    /// Stop when ‖R‖ ≤ this × ‖R(0)‖ (the residual with no reaction field) …
+    pub residual_tol: f64,
+    /// … and the last update ‖Δa‖ ≤ this × ‖a‖.
+    pub update_tol: f64,
+    /// Give up after this many iterations.
+    pub max_iterations: usize,
+}
+
+impl Default for NewtonSettings {
+    fn default() -> Self {
+        Self {
+            residual_tol: 1e-8,
+            update_tol: 1e-10,
+            max_iterations: 50,
+        }
+    }
+}
+
+/// How a converged Newton solve went.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct NewtonReport {
+    /// Newton iterations (tangent factorisations) done.
+    pub iterations: usize,
+    /// Relative residual ‖R‖/‖R(0)‖ at the start and after each iteration.
+    pub residual_history: Vec<f64>,
+    /// Relative update ‖Δa‖/‖a‖ of each iteration.
+    pub update_history: Vec<f64>,
+    /// Step length α of each iteration (1 for a full Newton step).
+    pub step_lengths: Vec<f64>,
+}
+
+/// What drives the field: per-element current densities (A/m²), per-node Dirichlet values of
+/// the reaction part (Wb/m, read at fixed nodes) and the uniform background B_z (T).
+#[derive(Debug, Clone, Copy)]
+pub struct Excitation<'a> {
+    /// Current density per element, A/m².
+    pub currents: &'a [f64],
+    /// Dirichlet values per node, Wb/m.
+    pub a_fixed: &'a [f64],
+    /// Uniform background B_z, T.
+    pub b0: f64,
+}
+
+impl Model {
+    /// Solves a problem with saturating (or linear) materials by Newton's method, starting from
+    /// `start` (continuation) or, if `None`, from the linear solve with every material at its
+    /// initial permeability. Fails with [`SolverError::NotConverged`] rather than returning an
+    /// unconverged field.
+    pub fn solve_nonlinear(
+        &self,
+        exc: Excitation<'_>,
+        start: Option<&Solution>,
+        settings: &NewtonSettings,
+    ) -> Result<(Solution, NewtonReport), SolverError> {
+        let mut a = match start {
+            Some(s) => self.with_fixed(&s.a, exc.a_fixed),
+            None => self.initial_guess(exc)?,
+        };
+        let zero = self.with_fixed(&vec![0.0; a.len()], exc.a_fixed);
+        let scale = norm(&self.residual(&zero, exc));
+        let mut report = NewtonReport::default();
+        if scale == 0.0 {
+            // Nothing drives the field: the reaction part is zero.
+            report.residual_history.push(0.0);
+            return Ok((Solution { a: zero, b0: exc.b0 }, report));
+        }
+        let mut r = self.residual(&a, exc);
+        report.residual_history.push(norm(&r) / scale);
+        let mut last_update = f64::INFINITY;
+        loop {
+            let rel = *report.residual_history.last().unwrap_or(&f64::INFINITY);
+            if rel <= settings.residual_tol && last_update <= settings.update_tol {
+                return Ok((Solution { a, b0: exc.b0 }, report));
+            }
+            if !rel.is_finite() || report.iterations >= settings.max_iterations {
+                return Err(SolverError::NotConverged {
+                    iterations: report.iterations,
+                    residual: rel,
+                    reason: if rel.is_finite() {
+                        format!("iteration limit {} reached", settings.max_iterations)
+                    } else {
+                        "the residual is not finite".into()
+                    },
+                    history: report.residual_history,
+                });
+            }
+            let factor = self.tangent(&a, exc)?;
+            let mut delta = r.iter().map(|v| -v).collect::<Vec<_>>();
+            factor.solve_in_place(&mut delta);
+            let (alpha, r_new) = self.line_search(&a, &delta, &r, exc);
+            let mut step2 = 0.0;
+            for (i, d) in delta.iter().enumerate() {
+                step2 += (alpha * d) * (alpha * d);
+                let node = self.dofs.free_nodes[i] as usize;
+                a[node] += alpha * d;
+            }
+            let a_norm = self.free_norm(&a);
+            last_update = if a_norm > 0.0 {
+                step2.sqrt() / a_norm
+            } else {
+                step2.sqrt()
+            };
+            if std::env::var_os("AXICORE_NEWTON_TRACE").is_some() {
+                eprintln!("it {} alpha {alpha:.3e} res {:.3e} upd {last_update:.3e}", report.iterations, norm(&r_new) / scale);
+            }
+            r = r_new;
+            report.iterations += 1;
+            report.residual_history.push(norm(&r) / scale);
+            report.update_history.push(last_update);
+            report.step_lengths.push(alpha);
+        }
+    }
+
+    /// Factorised tangent T(a) at a solution: its inverse maps load changes to potential
+    /// changes (incremental, i.e. differential, response).
+    pub fn tangent_at(&self, sol: &Solution, a_fixed: &[f64]) -> Result<SpdFactor<'_>, SolverError> {
+        let currents = vec![0.0; self.mesh.triangles.len()];
+        let exc = Excitation {
+            currents: &currents,
+            a_fixed,
+            b0: sol.b0,
+        };
+        self.tangent(&sol.a, exc)
+    }
+
+    /// The response δa = T⁻¹ f(δJ) of the linearised problem to current densities `currents`
+    /// (A/m² per element), with zero Dirichlet data and no background: the incremental field.
+    pub fn tangent_response(&self, factor: &SpdFactor<'_>, currents: &[f64]) -> Solution {
+        let zero = vec![0.0; self.mesh.nodes.len()];
+        let mut x = assembly::rhs(
+            &self.mesh.triangles,
+            &self.geom,
+            &self.dofs,
+            currents,
+            &zero,
+            0.0,
+            |_, _| 0.0,
+        );
+        factor.solve_in_place(&mut x);
+        let mut a = zero;
+        for (i, &n) in self.dofs.free_nodes.iter().enumerate() {
+            a[n as usize] = x[i];
+        }
+        Solution { a, b0: 0.0 }
+    }
+
+    /// Reaction coefficients `a` with the Dirichlet values of `a_fixed` imposed.
+    fn with_fixed(&self, a: &[f64], a_fixed: &[f64]) -> Vec<f64> {
+        (0..self.mesh.nodes.len())
+            .map(|n| {
+                if self.dofs.index[n] == FIXED {
+                    a_fixed[n]
+                } else {
+                    a[n]
+                }
+            })
+            .collect()
+    }
+
+    /// ‖a‖ over the free nodes.
+    fn free_norm(&self, a: &[f64]) -> f64 {
+        self.dofs
+            .free_nodes
+            .iter()
+            .map(|&n| a[n as usize] * a[n as usize])
+            .sum::<f64>()
+            .sqrt()
+    }
+
+    /// The linear solve with every material at its initial reluctivity ν(0).
+    fn initial_guess(&self, exc: Excitation<'_>) -> Result<Vec<f64>, SolverError> {
+        let nu = |e: usize, _q: usize| self.material(e).nu(0.0);
+        let values = assembly::matrix(&self.geom, &self.pattern, nu);
+        let factor = self.symbolic.factorize(&values)?;
+        let mut x = assembly::rhs(
+            &self.mesh.triangles,
+            &self.geom,
+            &self.dofs,
+            exc.currents,
+            exc.a_fixed,
+            exc.b0,
+            nu,
+        );
+        factor.solve_in_place(&mut x);
+        let mut a = exc.a_fixed.to_vec();
+        for (i, &n) in self.dofs.free_nodes.iter().enumerate() {
+            a[n as usize] = x[i];
+        }
+        Ok(self.with_fixed(&a, exc.a_fixed))
+    }
+
+    /// Element residuals (and tangents) in element order, computed in parallel.
+    fn element_terms(
+        &self,
+        a: &[f64],
+        exc: Excitation<'_>,
+        with_tangent: bool,
+    ) -> Vec<([f64; 3], [[f64; 3]; 3])> {
+        self.geom
+            .par_iter()
+            .enumerate()
+            .map(|(e, g)| {
+                let ae = self.mesh.triangles[e].map(|v| a[v as usize]);
+                weak_form::residual_and_tangent(
+                    g,
+                    ae,
+                    exc.b0,
+                    exc.currents[e],
+                    self.material(e),
+                    with_tangent,
+                )
+            })
+            .collect()
+    }
+
+    /// Global residual over the free unknowns (scattered in element order: deterministic).
+    fn residual(&self, a: &[f64], exc: Excitation<'_>) -> Vec<f64> {
+        let mut out = vec![0.0; self.dofs.n_free];
+        for (tri, (r, _)) in self.mesh.triangles.iter().zip(self.element_terms(a, exc, false)) {
+            for k in 0..3 {
+                if let Some(i) = self.dofs.free(tri[k]) {
+                    out[i] += r[k];
+                }
+            }
+        }
+        out
+    }
+
+    /// Assembles and factorises the tangent at `a`.
+    fn tangent(&self, a: &[f64], exc: Excitation<'_>) -> Result<SpdFactor<'_>, SolverError> {
+        let mut values = vec![0.0; self.pattern.nnz()];
+        for ((_, t), slots) in self
+            .element_terms(a, exc, true)
+            .iter()
+            .zip(&self.pattern.slots)
+        {
+            for k in 0..3 {
+                for l in 0..3 {
+                    let s = slots[3 * k + l];
+                    if s != NO_SLOT {
+                        values[s as usize] += t[k][l];
+                    }
+                }
+            }
+        }
+        self.symbolic.factorize(&values)
+    }
+
+    /// Step length along `delta` from `a` (residual `r0` there) and the residual at the new
+    /// point: 1 if the full step lowers ‖R‖, else the minimiser of the energy on the line.
+    fn line_search(
+        &self,
+        a: &[f64],
+        delta: &[f64],
+        r0: &[f64],
+        exc: Excitation<'_>,
+    ) -> (f64, Vec<f64>) {
+        let at = |alpha: f64| {
+            let mut trial = a.to_vec();
+            for (i, d) in delta.iter().enumerate() {
+                trial[self.dofs.free_nodes[i] as usize] += alpha * d;
+            }
+            self.residual(&trial, exc)
+        };
+        let r1 = at(1.0);
+        let g1 = dot(&r1, delta);
+        if norm(&r1) < norm(r0) || g1 <= 0.0 {
+            // Full step: it lowers the residual, or the energy still decreases at α = 1.
+            return (1.0, r1);
+        }
+        // g(0) = −δᵀTδ < 0 < g(1) and g increases: Illinois regula falsi for its root.
+        let (mut lo, mut glo) = (0.0, dot(r0, delta));
+        let (mut hi, mut ghi) = (1.0, g1);
+        let mut best = (1.0, r1);
+        let mut side = 0;
+        for _ in 0..30 {
+            let alpha = (lo * ghi - hi * glo) / (ghi - glo);
+            let r = at(alpha);
+            let g = dot(&r, delta);
+            best = (alpha, r);
+            if g.abs() <= 1e-3 * glo.abs().max(ghi.abs()) || hi - lo < 1e-6 {
+                break;
+            }
+            if g < 0.0 {
+                lo = alpha;
+                glo = g;
+                if side == -1 {
+                    ghi *= 0.5;
+                }
+                side = -1;
+            } else {
+                hi = alpha;
+                ghi = g;
+                if side == 1 {
+                    glo *= 0.5;
+                }
+                side = 1;
+            }
+        }
+        best
+    }
+}
+
+fn dot(x: &[f64], y: &[f64]) -> f64 {
+    x.iter().zip(y).map(|(a, b)| a * b).sum()
+}
+
+fn norm(x: &[f64]) -> f64 {
+    dot(x, x).sqrt()
+}
