@@ -43,7 +43,10 @@ fineness = 1.2
     );
     let want = 300.0 * reference::MU0 * reference::long_solenoid_h(1e4, 0.010);
     let got = out.report.b_origin_T;
-    assert!(got < want, "B at centre {got} above the closed-core bound {want}");
+    assert!(
+        got < want,
+        "B at centre {got} above the closed-core bound {want}"
+    );
     assert!(
         rel(got, want) < 2e-2,
         "B at centre {got} vs μr μ0 n I = {want}"

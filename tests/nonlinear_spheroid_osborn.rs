@@ -43,7 +43,11 @@ b_axial = "{b0_t} T"
         &RunOptions::default(),
     );
     let r = &out.report;
-    assert!(r.newton_iterations <= 15, "{} iterations", r.newton_iterations);
+    assert!(
+        r.newton_iterations <= 15,
+        "{} iterations",
+        r.newton_iterations
+    );
     assert!(
         rel(r.core_dipole_moment_Am2, m_exact) < 1e-2,
         "μ0H0 = {b0_t} T: {} vs {m_exact}",

@@ -84,7 +84,13 @@ impl Model {
         if scale == 0.0 {
             // Nothing drives the field: the reaction part is zero.
             report.residual_history.push(0.0);
-            return Ok((Solution { a: zero, b0: exc.b0 }, report));
+            return Ok((
+                Solution {
+                    a: zero,
+                    b0: exc.b0,
+                },
+                report,
+            ));
         }
         let mut r = self.residual(&a, exc);
         report.residual_history.push(norm(&r) / scale);
@@ -123,7 +129,11 @@ impl Model {
                 step2.sqrt()
             };
             if std::env::var_os("AXICORE_NEWTON_TRACE").is_some() {
-                eprintln!("it {} alpha {alpha:.3e} res {:.3e} upd {last_update:.3e}", report.iterations, norm(&r_new) / scale);
+                eprintln!(
+                    "it {} alpha {alpha:.3e} res {:.3e} upd {last_update:.3e}",
+                    report.iterations,
+                    norm(&r_new) / scale
+                );
             }
             r = r_new;
             report.iterations += 1;
@@ -135,7 +145,11 @@ impl Model {
 
     /// Factorised tangent T(a) at a solution: its inverse maps load changes to potential
     /// changes (incremental, i.e. differential, response).
-    pub fn tangent_at(&self, sol: &Solution, a_fixed: &[f64]) -> Result<SpdFactor<'_>, SolverError> {
+    pub fn tangent_at(
+        &self,
+        sol: &Solution,
+        a_fixed: &[f64],
+    ) -> Result<SpdFactor<'_>, SolverError> {
         let currents = vec![0.0; self.mesh.triangles.len()];
         let exc = Excitation {
             currents: &currents,
@@ -238,7 +252,12 @@ impl Model {
     /// Global residual over the free unknowns (scattered in element order: deterministic).
     fn residual(&self, a: &[f64], exc: Excitation<'_>) -> Vec<f64> {
         let mut out = vec![0.0; self.dofs.n_free];
-        for (tri, (r, _)) in self.mesh.triangles.iter().zip(self.element_terms(a, exc, false)) {
+        for (tri, (r, _)) in self
+            .mesh
+            .triangles
+            .iter()
+            .zip(self.element_terms(a, exc, false))
+        {
             for k in 0..3 {
                 if let Some(i) = self.dofs.free(tri[k]) {
                     out[i] += r[k];

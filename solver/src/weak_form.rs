@@ -92,9 +92,8 @@ pub fn residual_and_tangent(
             let p = [0, 1, 2].map(|k| bh[0] * c[k][0] + bh[1] * c[k][1]); // b̂·B(φ_a)
             for k in 0..3 {
                 for l in k..3 {
-                    t[k][l] += (nu * (c[k][0] * c[l][0] + c[k][1] * c[l][1])
-                        + extra * p[k] * p[l])
-                        * q.dv;
+                    t[k][l] +=
+                        (nu * (c[k][0] * c[l][0] + c[k][1] * c[l][1]) + extra * p[k] * p[l]) * q.dv;
                 }
             }
         }

@@ -10,6 +10,7 @@ pub mod geometry;
 pub mod operating_point;
 pub mod output;
 pub mod pipeline;
+pub mod plot;
 pub mod ramp;
 pub mod ramp_plot;
 pub mod report;

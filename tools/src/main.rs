@@ -5,11 +5,11 @@ use std::process::ExitCode;
 
 use axicore::case::{builtin_materials, find_material, parse_case, read_case_file, Case};
 use axicore::pipeline::{discretise, run, RunError, RunOptions};
-use axicore::{ramp, ramp_plot};
-use axicore_solver::SolverError;
 use axicore::report::summary;
 use axicore::units::{self, Dimension};
 use axicore::{output, EXAMPLE_CASE, EXAMPLE_NAME};
+use axicore::{ramp, ramp_plot};
+use axicore_solver::SolverError;
 use clap::{Parser, Subcommand};
 
 const EXAMPLES: &str = "\
@@ -238,8 +238,7 @@ fn ramp_command(
     svg: Option<PathBuf>,
     json: bool,
 ) -> Result<(), Failure> {
-    let to = units::parse(to, Dimension::Current)
-        .map_err(|e| input_error(format!("--to: {e}")))?;
+    let to = units::parse(to, Dimension::Current).map_err(|e| input_error(format!("--to: {e}")))?;
     if !(to.is_finite() && to > 0.0) {
         return Err(input_error(format!("--to: {to} A must be positive")));
     }

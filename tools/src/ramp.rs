@@ -157,9 +157,7 @@ pub fn knee(rows: &[RampRow], m0: f64, slope: f64) -> Option<f64> {
         let q = ratio(r);
         if q <= KNEE_RATIO {
             return Some(match last {
-                Some((i0, q0)) if q0 > q => {
-                    i0 + (r.current_A - i0) * (q0 - KNEE_RATIO) / (q0 - q)
-                }
+                Some((i0, q0)) if q0 > q => i0 + (r.current_A - i0) * (q0 - KNEE_RATIO) / (q0 - q),
                 _ => r.current_A,
             });
         }
@@ -195,7 +193,11 @@ pub fn csv(r: &RampResult) -> String {
 /// A readable account of the curve.
 pub fn summary(r: &RampResult) -> String {
     let mut s = String::new();
-    let _ = writeln!(s, "{} — moment against current ({} nodes)", r.title, r.nodes);
+    let _ = writeln!(
+        s,
+        "{} — moment against current ({} nodes)",
+        r.title, r.nodes
+    );
     let _ = writeln!(
         s,
         "low-current slope        {:.6e} A·m²/A",

@@ -20,8 +20,9 @@
 //! μr (the core's own reluctance is ∝ 1/μr) and throttles the flux: a μr = 300 spheroid of axis
 //! ratio 50 came out 30 % low on 25k nodes. Interpolating rA removes that error (rA ≈ const is
 //! exact). Near the axis rA ∝ r² cannot be interpolated linearly without locking, so nodes of
-//! elements touching the axis keep the plain basis, and so do nodes of magnetic elements, where
-//! the field is nearly uniform (A = B r/2 is exact in the plain basis). For a flux node
+//! elements touching the axis keep the plain basis, and magnetic elements use the plain basis
+//! at all their nodes, as the field inside them is nearly uniform (A = B r/2 is exact in the
+//! plain basis). The choice is made per element (see [`crate::solve::flux_nodes`]). For a flux node
 //! B(φ_i) = (r_i/r)·(−∂N_i/∂z, ∂N_i/∂r), since ∂(r_i/r)/∂r + (r_i/r)/r = 0.
 
 use crate::mesh::{FeMesh, Point};

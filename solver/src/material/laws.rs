@@ -166,7 +166,10 @@ impl SaturationLaw {
             SaturationLaw::Arctan { js, mu_ri } => {
                 let c = std::f64::consts::FRAC_PI_2 * MU0 * (mu_ri - 1.0) / js;
                 let j = js / std::f64::consts::FRAC_PI_2 * (c * h).atan();
-                (MU0 * h + j, MU0 + MU0 * (mu_ri - 1.0) / (1.0 + (c * h) * (c * h)))
+                (
+                    MU0 * h + j,
+                    MU0 + MU0 * (mu_ri - 1.0) / (1.0 + (c * h) * (c * h)),
+                )
             }
             SaturationLaw::Knee { js, mu_i, mu_max } => {
                 let (a, hk) = knee_shape(js, mu_i, mu_max);

@@ -35,7 +35,15 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         }
     })?;
     let top = Section::new(file, String::new(), &root);
-    top.only(&["title", "core", "winding", "background", "air", "mesh", "solver"])?;
+    top.only(&[
+        "title",
+        "core",
+        "winding",
+        "background",
+        "air",
+        "mesh",
+        "solver",
+    ])?;
     let title = top
         .string("title")?
         .unwrap_or_else(|| "untitled case".into());
@@ -172,7 +180,10 @@ fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
         )),
         [_, second, ..] => Err(s.fault(
             second,
-            &format!("give only one of material, mu_r, bh_curve, law (found {})", given.join(" and ")),
+            &format!(
+                "give only one of material, mu_r, bh_curve, law (found {})",
+                given.join(" and ")
+            ),
         )),
         ["mu_r"] => {
             let mu_r = s.quantity("mu_r", Dimension::Dimensionless)?.unwrap_or(1.0);
@@ -205,7 +216,9 @@ fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
             }
         }
         ["bh_curve"] => {
-            let t = s.table("bh_curve")?.ok_or_else(|| s.fault("bh_curve", "must be a table"))?;
+            let t = s
+                .table("bh_curve")?
+                .ok_or_else(|| s.fault("bh_curve", "must be a table"))?;
             let points = bh_points(&t)?;
             let table = BhTable::new(&points).map_err(|e| t.fault("b", &e.to_string()))?;
             Ok((
@@ -214,10 +227,13 @@ fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
             ))
         }
         _ => {
-            let t = s.table("law")?.ok_or_else(|| s.fault("law", "must be a table"))?;
+            let t = s
+                .table("law")?
+                .ok_or_else(|| s.fault("law", "must be a table"))?;
             let law = parse_law(&t)?;
             let mat = Material::Saturable(Arc::new(law));
-            mat.validate().map_err(|e| t.fault("kind", &e.to_string()))?;
+            mat.validate()
+                .map_err(|e| t.fault("kind", &e.to_string()))?;
             Ok((t.string("kind")?.unwrap_or_default(), mat))
         }
     }
@@ -250,9 +266,12 @@ fn bh_points(t: &Section) -> Result<Vec<[f64; 2]>, CaseError> {
 
 /// An analytic law from `[core.law]`.
 fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
-    let kind = t
-        .string("kind")?
-        .ok_or_else(|| t.fault("kind", "missing (frohlich-kennelly, arctan, knee or brauer)"))?;
+    let kind = t.string("kind")?.ok_or_else(|| {
+        t.fault(
+            "kind",
+            "missing (frohlich-kennelly, arctan, knee or brauer)",
+        )
+    })?;
     let kinds = ["frohlich-kennelly", "arctan", "knee", "brauer"];
     let required = |key: &str, dim| t.quantity(key, dim)?.ok_or_else(|| t.fault(key, "missing"));
     Ok(match kind.as_str() {
@@ -287,7 +306,11 @@ fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
         other => {
             return Err(t.fault(
                 "kind",
-                &format!("unknown law '{other}'{} ({})", hint(other, &kinds), kinds.join(", ")),
+                &format!(
+                    "unknown law '{other}'{} ({})",
+                    hint(other, &kinds),
+                    kinds.join(", ")
+                ),
             ))
         }
     })
