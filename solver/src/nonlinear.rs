@@ -128,13 +128,6 @@ impl Model {
             } else {
                 step2.sqrt()
             };
-            if std::env::var_os("AXICORE_NEWTON_TRACE").is_some() {
-                eprintln!(
-                    "it {} alpha {alpha:.3e} res {:.3e} upd {last_update:.3e}",
-                    report.iterations,
-                    norm(&r_new) / scale
-                );
-            }
             r = r_new;
             report.iterations += 1;
             report.residual_history.push(norm(&r) / scale);
@@ -203,9 +196,46 @@ impl Model {
             .sqrt()
     }
 
-    /// The linear solve with every material at its initial reluctivity ν(0).
+    /// The first guess: the linear solve with every material at its initial reluctivity ν(0),
+    /// then one secant (fixed-point) update with ν(|B|) of that field.
+    ///
+    /// Why the secant update: above the knee the linear field is far too strong, and Newton
+    /// started there approaches a steep law H(B) from its saturated side, where each iteration
+    /// only halves the distance to the knee. The secant update lands below the knee instead.
+    /// Measured on the built-in torquer rod (80 % Ni-Fe knee law) at 3 A: 52 Newton iterations
+    /// without it, 13 with it; 11 against 18 for an arctangent law.
     fn initial_guess(&self, exc: Excitation<'_>) -> Result<Vec<f64>, SolverError> {
-        let nu = |e: usize, _q: usize| self.material(e).nu(0.0);
+        let initial = vec![[0.0; 7]; self.geom.len()];
+        let guess = self.secant_solve(exc, &initial)?;
+        if self.is_linear() {
+            return Ok(guess);
+        }
+        let field = Solution {
+            a: guess,
+            b0: exc.b0,
+        };
+        let secant: Vec<[f64; 7]> = (0..self.geom.len())
+            .into_par_iter()
+            .map(|e| {
+                let mat = self.material(e);
+                self.geom[e].qp.each_ref().map(|q| {
+                    let b = field.b_q(self, e, q);
+                    mat.nu(b[0].hypot(b[1]))
+                })
+            })
+            .collect();
+        self.secant_solve(exc, &secant)
+    }
+
+    /// The linear solve with reluctivity `nu[e][q]` per quadrature point (0 stands for ν(0)).
+    fn secant_solve(&self, exc: Excitation<'_>, nu: &[[f64; 7]]) -> Result<Vec<f64>, SolverError> {
+        let nu = |e: usize, q: usize| {
+            if nu[e][q] > 0.0 {
+                nu[e][q]
+            } else {
+                self.material(e).nu(0.0)
+            }
+        };
         let values = assembly::matrix(&self.geom, &self.pattern, nu);
         let factor = self.symbolic.factorize(&values)?;
         let mut x = assembly::rhs(
