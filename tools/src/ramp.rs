@@ -149,10 +149,10 @@ pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> 
 }
 
 /// First current where (m − m0)/(slope·I) falls to [`KNEE_RATIO`], interpolated linearly
-/// between the two steps that bracket it.
+/// between the two steps that bracket it (the ratio is 1 at zero current by definition).
 pub fn knee(rows: &[RampRow], m0: f64, slope: f64) -> Option<f64> {
     let ratio = |r: &RampRow| (r.dipole_moment_Am2 - m0) / (slope * r.current_A);
-    let mut last: Option<(f64, f64)> = None;
+    let mut last: Option<(f64, f64)> = Some((0.0, 1.0));
     for r in rows {
         let q = ratio(r);
         if q <= KNEE_RATIO {
