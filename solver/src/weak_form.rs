@@ -77,13 +77,17 @@ pub fn residual_and_tangent(
             a[0] * c[0][1] + a[1] * c[1][1] + a[2] * c[2][1] + b0,
         ];
         let bm = bx[0].hypot(bx[1]);
-        let nu = mat.nu(bm);
+        let (nu, nu_d) = if with_tangent {
+            mat.reluctivities(bm)
+        } else {
+            (mat.nu(bm), 0.0)
+        };
         let hx = [nu * bx[0], nu * bx[1] - nu0 * b0]; // ν B − ν0 B0 e_z
         for k in 0..3 {
             r[k] += (hx[0] * c[k][0] + hx[1] * c[k][1] - j * g.phi(k, q)) * q.dv;
         }
         if with_tangent {
-            let extra = if bm > 0.0 { mat.nu_diff(bm) - nu } else { 0.0 };
+            let extra = if bm > 0.0 { nu_d - nu } else { 0.0 };
             let bh = if bm > 0.0 {
                 [bx[0] / bm, bx[1] / bm]
             } else {

@@ -195,8 +195,10 @@ impl SaturationLaw {
                 if b <= 0.0 {
                     return 0.0;
                 }
-                // B ≥ μ0 H bounds H from above; the initial permeability gives the guess.
-                let guess = b * self.nu(0.0);
+                // B ≥ μ0 H bounds H from above. Guess: the initial permeability below the
+                // knee, the vacuum line shifted by Js above it.
+                let js = self.saturation_b().unwrap_or(0.0);
+                let guess = (b * self.nu(0.0)).max((b - js) / MU0);
                 solve_increasing(|h| self.b_and_slope(h), b, 0.0, b / MU0, guess)
             }
         }
@@ -224,6 +226,17 @@ impl SaturationLaw {
             }
             SaturationLaw::Brauer(ref l) if b <= 0.0 => l.k1 + l.k3,
             _ => self.h(b) / b,
+        }
+    }
+
+    /// (ν, ν_d) at |B| = `b`, sharing one inversion of the law where it is needed.
+    pub fn reluctivities(&self, b: f64) -> (f64, f64) {
+        match *self {
+            SaturationLaw::Arctan { .. } | SaturationLaw::Knee { .. } if b > 0.0 => {
+                let h = self.h(b);
+                (h / b, 1.0 / self.b_and_slope(h).1)
+            }
+            _ => (self.nu(b), self.nu_diff(b)),
         }
     }
 
@@ -367,6 +380,8 @@ mod tests {
                 let db = 1e-6 * b;
                 let fd = (law.h(b + db) - law.h(b - db)) / (2.0 * db);
                 let nd = law.nu_diff(b);
+                let (n1, n2) = law.reluctivities(b);
+                assert!((n1 - law.nu(b)).abs() <= 1e-14 * n1 && (n2 - nd).abs() <= 1e-14 * nd);
                 assert!((fd - nd).abs() < 1e-5 * nd, "{law:?} b={b} {fd} {nd}");
                 let fw = (law.energy_density(b + db) - law.energy_density(b - db)) / (2.0 * db);
                 assert!((fw - h).abs() < 1e-5 * h, "{law:?} b={b} {fw} {h}");

@@ -75,6 +75,15 @@ impl Material {
         }
     }
 
+    /// (ν, ν_d) at |B| = `b` in m/H: cheaper than asking for each.
+    #[inline]
+    pub fn reluctivities(&self, b: f64) -> (f64, f64) {
+        match self {
+            Material::Linear { mu_r } => (1.0 / (MU0 * mu_r), 1.0 / (MU0 * mu_r)),
+            Material::Saturable(law) => law.reluctivities(b),
+        }
+    }
+
     /// Energy density ∫_0^B H dB in J/m³ at |B| = `b` (T).
     #[inline]
     pub fn energy_density(&self, b: f64) -> f64 {
