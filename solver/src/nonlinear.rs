@@ -262,21 +262,67 @@ impl Model {
         exc: Excitation<'_>,
         with_tangent: bool,
     ) -> Vec<([f64; 3], [[f64; 3]; 3])> {
+        let fixed = self.linear_parts();
         self.geom
             .par_iter()
             .enumerate()
             .map(|(e, g)| {
                 let ae = self.mesh.triangles[e].map(|v| a[v as usize]);
-                weak_form::residual_and_tangent(
-                    g,
-                    ae,
-                    exc.b0,
-                    exc.currents[e],
-                    self.material(e),
-                    with_tangent,
-                )
+                match &fixed[e] {
+                    // Linear elements (most of the air): R = K a + (ν − ν0) B0 ∫B_z(φ) − f,
+                    // T = K, with K precomputed — the same integrals, evaluated once.
+                    Some(lin) => {
+                        let f = weak_form::load(g, exc.currents[e]);
+                        let mut r = [0.0; 3];
+                        for k in 0..3 {
+                            r[k] = lin.k[k][0] * ae[0]
+                                + lin.k[k][1] * ae[1]
+                                + lin.k[k][2] * ae[2]
+                                + lin.dnu * exc.b0 * lin.curl_z[k]
+                                - f[k];
+                        }
+                        (r, lin.k)
+                    }
+                    None => weak_form::residual_and_tangent(
+                        g,
+                        ae,
+                        exc.b0,
+                        exc.currents[e],
+                        self.material(e),
+                        with_tangent,
+                    ),
+                }
             })
             .collect()
+    }
+
+    /// Per element, the constant stiffness of a linear material (None for saturating ones),
+    /// built on first use.
+    fn linear_parts(&self) -> &[Option<LinearElement>] {
+        self.linear_elements.get_or_init(|| {
+            self.geom
+                .par_iter()
+                .enumerate()
+                .map(|(e, g)| {
+                    let mat = self.material(e);
+                    if !mat.is_linear() {
+                        return None;
+                    }
+                    let nu = mat.nu(0.0);
+                    let mut curl_z = [0.0; 3];
+                    for q in &g.qp {
+                        for (k, c) in curl_z.iter_mut().enumerate() {
+                            *c += g.curl(k, q)[1] * q.dv;
+                        }
+                    }
+                    Some(LinearElement {
+                        k: weak_form::stiffness(g, |_| nu),
+                        curl_z,
+                        dnu: nu - 1.0 / crate::MU0,
+                    })
+                })
+                .collect()
+        })
     }
 
     /// Global residual over the free unknowns (scattered in element order: deterministic).
@@ -370,6 +416,17 @@ impl Model {
         }
         best
     }
+}
+
+/// The constant part of a linear element in the Newton residual.
+#[derive(Debug, Clone)]
+pub(crate) struct LinearElement {
+    /// Element stiffness ∫ ν B(φ_a)·B(φ_b) dV.
+    k: [[f64; 3]; 3],
+    /// ∫ B_z(φ_a) dV.
+    curl_z: [f64; 3],
+    /// ν − ν0.
+    dnu: f64,
 }
 
 fn dot(x: &[f64], y: &[f64]) -> f64 {

@@ -23,6 +23,8 @@ pub struct Model {
     pub(crate) symbolic: SymbolicSpd,
     pub(crate) fixed: Vec<(u32, f64)>,
     pub(crate) background: f64,
+    /// Constant element stiffness of linear elements for the Newton residual (lazy).
+    pub(crate) linear_elements: std::sync::OnceLock<Vec<Option<crate::nonlinear::LinearElement>>>,
 }
 
 impl Model {
@@ -75,6 +77,7 @@ impl Model {
             symbolic,
             fixed,
             background: background_b,
+            linear_elements: std::sync::OnceLock::new(),
         })
     }
 

@@ -51,7 +51,8 @@ fn bases(dim: Dimension) -> &'static [(&'static str, f64)] {
         Dimension::Current => &[("A", 1.0)],
         // gauss is CGS but still printed on many sensor data sheets; 1 G = 1e-4 T exactly.
         Dimension::FluxDensity => &[("T", 1.0), ("G", 1e-4)],
-        Dimension::FieldStrength => &[("A/m", 1.0)],
+        // 1 Oe = 1000/(4π) A/m (CGS-Gaussian, exact by definition).
+        Dimension::FieldStrength => &[("A/m", 1.0), ("Oe", 250.0 / std::f64::consts::PI)],
         Dimension::Dimensionless => &[],
     }
 }
@@ -156,6 +157,9 @@ mod tests {
         assert!((parse("30 uT", Dimension::FluxDensity).unwrap() - 3e-5).abs() < 1e-18);
         assert!((parse("0.5 G", Dimension::FluxDensity).unwrap() - 5e-5).abs() < 1e-18);
         assert!((parse("2 kA/m", Dimension::FieldStrength).unwrap() - 2e3).abs() < 1e-9);
+        assert!(
+            (parse("1 Oe", Dimension::FieldStrength).unwrap() - 79.577_471_545_947_67).abs() < 1e-9
+        );
     }
 
     #[test]
