@@ -19,7 +19,8 @@ assert n == expected, f"{n} triangles, expected {expected}"
 for name in ("A_phi_Wb_per_m", "flux_Wb"):
     assert name in m.point_data, f"point array {name} missing: {list(m.point_data)}"
 cells = {k: v[0] for k, v in m.cell_data.items()}
-for name in ("region", "B_T", "B_magnitude_T", "H_A_per_m", "H_magnitude_A_per_m", "mu_r"):
+for name in ("region", "B_T", "B_magnitude_T", "H_A_per_m", "H_magnitude_A_per_m", "mu_r",
+             "B_over_B_sat", "saturated"):
     assert name in cells, f"cell array {name} missing: {list(cells)}"
 regions = set(int(x) for x in cells["region"])
 assert {0, 1, 2} <= regions, f"region ids {sorted(regions)}"
@@ -29,4 +30,12 @@ for name, arr in list(cells.items()) + list(m.point_data.items()):
 assert min(cells["mu_r"]) >= 1.0 - 1e-12, "mu_r below 1"
 assert min(cells["B_magnitude_T"]) >= 0.0
 assert 0.0 < max(cells["B_magnitude_T"]) < 10.0, "implausible |B| range"
+# The example core saturates (knee law): |B|/B_sat only there, flags 0 or 1 and set only
+# where |B|/B_sat exceeds 0.9.
+ratio, flag = cells["B_over_B_sat"].ravel(), cells["saturated"].ravel()
+core = cells["region"].ravel() == 1
+assert min(ratio) >= 0.0 and max(ratio[~core], default=0.0) == 0.0, "B/B_sat outside the core"
+assert 0.0 < max(ratio[core]) < 5.0, "implausible B/B_sat in the core"
+assert set(float(x) for x in flag) <= {0.0, 1.0}, "saturated flag not 0/1"
+assert all((f == 1.0) == (r > 0.9) for f, r in zip(flag, ratio)), "flag disagrees with B/B_sat"
 print(f"{path}: {n} triangles, regions {sorted(regions)}, arrays ok (meshio {meshio.__version__})")
