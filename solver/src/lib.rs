@@ -27,6 +27,7 @@
 //! - [`cholesky`]: the sparse direct solve (faer).
 //! - [`problem`], [`solve`]: what to solve and the linear solve.
 //! - [`nonlinear`]: Newton's method for saturating materials.
+//! - [`exterior`]: the exact open boundary (exterior multipole energy).
 //! - [`field`], [`locate`], [`recover`]: the solved field, evaluation at points, patch recovery.
 //! - [`post`]: dipole moment, energy, flux linkage, probes, core peak field.
 //! - [`export`]: VTK output.
@@ -39,6 +40,7 @@ pub mod dofs;
 pub mod element;
 pub mod error;
 pub mod export;
+pub mod exterior;
 pub mod field;
 pub mod locate;
 pub mod material;

@@ -236,7 +236,8 @@ impl Model {
                 self.material(e).nu(0.0)
             }
         };
-        let values = assembly::matrix(&self.geom, &self.pattern, nu);
+        let mut values = assembly::matrix(&self.geom, &self.pattern, nu);
+        self.add_exterior_matrix(&mut values);
         let factor = self.symbolic.factorize(&values)?;
         let mut x = assembly::rhs(
             &self.mesh.triangles,
@@ -340,6 +341,7 @@ impl Model {
                 }
             }
         }
+        self.add_exterior_residual(a, &mut out);
         out
     }
 
@@ -360,6 +362,7 @@ impl Model {
                 }
             }
         }
+        self.add_exterior_matrix(&mut values);
         self.symbolic.factorize(&values)
     }
 

@@ -25,8 +25,21 @@ pub struct Pattern {
 impl Pattern {
     /// Builds the pattern of the couplings of `triangles` among the free unknowns of `dofs`.
     pub fn new(triangles: &[[u32; 3]], dofs: &DofMap) -> Self {
+        Self::with_dense_group(triangles, dofs, &[])
+    }
+
+    /// As [`Self::new`], plus every coupling among the free unknowns `group` (a dense block,
+    /// e.g. the surface nodes of an exact open boundary).
+    pub fn with_dense_group(triangles: &[[u32; 3]], dofs: &DofMap, group: &[usize]) -> Self {
         let n = dofs.n_free;
         let mut cols: Vec<Vec<usize>> = vec![Vec::new(); n];
+        for &i in group {
+            for &j in group {
+                if i >= j {
+                    cols[j].push(i);
+                }
+            }
+        }
         for tri in triangles {
             let g = tri.map(|v| dofs.free(v));
             for a in 0..3 {
@@ -74,6 +87,15 @@ impl Pattern {
             row_idx,
             slots,
         }
+    }
+
+    /// Slot of the coupling of unknowns (i, j), either order, if stored.
+    pub fn slot(&self, i: usize, j: usize) -> Option<u32> {
+        let (row, col) = if i >= j { (i, j) } else { (j, i) };
+        let rows = &self.row_idx[self.col_ptr[col]..self.col_ptr[col + 1]];
+        rows.binary_search(&row)
+            .ok()
+            .map(|k| (self.col_ptr[col] + k) as u32)
     }
 
     /// Number of stored entries.

@@ -5,10 +5,12 @@ use crate::assembly;
 use crate::cholesky::{SpdFactor, SymbolicSpd};
 use crate::dofs::DofMap;
 use crate::element::ElementGeometry;
+use crate::exterior::{exterior_operator, ExteriorOperator, OpenBoundary};
 use crate::field::Solution;
 use crate::material::Material;
 use crate::mesh::FeMesh;
 use crate::pattern::Pattern;
+use crate::pattern::NO_SLOT;
 use crate::problem::{Problem, RegionProps};
 use crate::SolverError;
 
@@ -25,6 +27,18 @@ pub struct Model {
     pub(crate) background: f64,
     /// Constant element stiffness of linear elements for the Newton residual (lazy).
     pub(crate) linear_elements: std::sync::OnceLock<Vec<Option<crate::nonlinear::LinearElement>>>,
+    pub(crate) exterior: Option<Exterior>,
+}
+
+/// The exact open boundary's operator with its place in the pattern.
+#[derive(Debug)]
+pub(crate) struct Exterior {
+    op: ExteriorOperator,
+    /// Equation numbers of `op.nodes`.
+    free: Vec<usize>,
+    /// Pattern slot of each (k, l) pair of surface nodes, row-major ([`NO_SLOT`] above the
+    /// diagonal).
+    slots: Vec<u32>,
 }
 
 impl Model {
@@ -36,6 +50,7 @@ impl Model {
             regions,
             fixed,
             background_b,
+            open_boundary,
         } = problem;
         let magnetic: Vec<bool> = (0..mesh.triangles.len())
             .map(|e| regions[mesh.tags[e] as usize].material.is_magnetic())
@@ -66,7 +81,45 @@ impl Model {
             });
         }
         let dofs = DofMap::new(mesh.nodes.len(), &fixed_nodes);
-        let pattern = Pattern::new(&mesh.triangles, &dofs);
+        let exterior = match &open_boundary {
+            Some(ob) => {
+                // Surface nodes held by a Dirichlet value (the two on the axis) drop out.
+                let ob = OpenBoundary {
+                    nodes: ob
+                        .nodes
+                        .iter()
+                        .copied()
+                        .filter(|&n| (n as usize) < mesh.nodes.len() && dofs.free(n).is_some())
+                        .collect(),
+                    ..ob.clone()
+                };
+                Some(exterior_operator(&mesh, &geom, &ob)?)
+            }
+            None => None,
+        };
+        let group: Vec<usize> = exterior
+            .iter()
+            .flat_map(|x| x.nodes.iter().filter_map(|&n| dofs.free(n)))
+            .collect();
+        let pattern = Pattern::with_dense_group(&mesh.triangles, &dofs, &group);
+        let exterior = exterior.map(|op| {
+            let slots = group
+                .iter()
+                .flat_map(|&i| group.iter().map(move |&j| (i, j)))
+                .map(|(i, j)| {
+                    if i >= j {
+                        pattern.slot(i, j).unwrap_or(NO_SLOT)
+                    } else {
+                        NO_SLOT
+                    }
+                })
+                .collect();
+            Exterior {
+                op,
+                free: group.clone(),
+                slots,
+            }
+        });
         let symbolic = SymbolicSpd::analyse(&pattern)?;
         Ok(Self {
             mesh,
@@ -78,7 +131,58 @@ impl Model {
             fixed,
             background: background_b,
             linear_elements: std::sync::OnceLock::new(),
+            exterior,
         })
+    }
+
+    /// Whether the problem has the exact open boundary.
+    pub fn has_open_boundary(&self) -> bool {
+        self.exterior.is_some()
+    }
+
+    /// Adds the exterior operator D into matrix values on the pattern (no-op without it).
+    pub(crate) fn add_exterior_matrix(&self, values: &mut [f64]) {
+        if let Some(x) = &self.exterior {
+            for (s, d) in x.slots.iter().zip(&x.op.d) {
+                if *s != NO_SLOT {
+                    values[*s as usize] += d;
+                }
+            }
+        }
+    }
+
+    /// Adds D·a (a: per-node reaction coefficients) into a residual over free unknowns.
+    pub(crate) fn add_exterior_residual(&self, a: &[f64], out: &mut [f64]) {
+        if let Some(x) = &self.exterior {
+            let nb = x.free.len();
+            for (k, &i) in x.free.iter().enumerate() {
+                let row = &x.op.d[k * nb..(k + 1) * nb];
+                out[i] += row
+                    .iter()
+                    .zip(&x.op.nodes)
+                    .map(|(d, &n)| d * a[n as usize])
+                    .sum::<f64>();
+            }
+        }
+    }
+
+    /// Energy ½ aᵀ D a of the reaction field outside the meshed sphere, J (0 without it).
+    pub fn exterior_energy(&self, a: &[f64]) -> f64 {
+        match &self.exterior {
+            Some(x) => {
+                let nb = x.free.len();
+                let mut w = 0.0;
+                for k in 0..nb {
+                    for l in 0..nb {
+                        w += a[x.op.nodes[k] as usize]
+                            * x.op.d[k * nb + l]
+                            * a[x.op.nodes[l] as usize];
+                    }
+                }
+                0.5 * w
+            }
+            None => 0.0,
+        }
     }
 
     /// The mesh.
@@ -157,7 +261,9 @@ impl Model {
                 r.material
             )));
         }
-        let values = assembly::matrix(&self.geom, &self.pattern, |e, _| self.material(e).nu(0.0));
+        let mut values =
+            assembly::matrix(&self.geom, &self.pattern, |e, _| self.material(e).nu(0.0));
+        self.add_exterior_matrix(&mut values);
         let factor = self.symbolic.factorize(&values)?;
         Ok(LinearOperator {
             model: self,

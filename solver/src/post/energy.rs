@@ -3,7 +3,8 @@
 use crate::field::Solution;
 use crate::solve::Model;
 
-/// Field energy W = ∫ (∫_0^B H·dB) dV in J; for linear materials ½ ∫ ν |B|² dV.
+/// Field energy W = ∫ (∫_0^B H·dB) dV in J; for linear materials ½ ∫ ν |B|² dV. With the
+/// exact open boundary the energy of the reaction field outside the meshed sphere is added.
 pub fn energy(model: &Model, sol: &Solution) -> f64 {
     let mut w = 0.0;
     for (e, g) in model.geometry().iter().enumerate() {
@@ -13,5 +14,5 @@ pub fn energy(model: &Model, sol: &Solution) -> f64 {
             w += mat.energy_density(b[0].hypot(b[1])) * q.dv;
         }
     }
-    w
+    w + model.exterior_energy(&sol.a)
 }

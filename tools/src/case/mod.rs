@@ -27,6 +27,8 @@ pub struct Case {
     pub background_b: f64,
     /// Radius of the meshed air region (outer sphere), in m; None = automatic.
     pub air_radius: Option<f64>,
+    /// Exact open boundary on the air sphere (true) or A = B0 r/2 held there (false).
+    pub open_boundary: bool,
     /// Mesh controls.
     pub mesh: MeshControls,
     /// Stopping rules of the nonlinear iteration (used only with saturating materials).

@@ -77,12 +77,25 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         }
         None => 0.0,
     };
-    let air_radius = match top.table("air")? {
+    let (air_radius, open_boundary) = match top.table("air")? {
         Some(s) => {
-            s.only(&["radius"])?;
-            s.positive("radius", Dimension::Length)?
+            s.only(&["radius", "boundary"])?;
+            let open = match s.string("boundary")?.as_deref() {
+                None | Some("open") => true,
+                Some("truncated") => false,
+                Some(other) => {
+                    return Err(s.fault(
+                        "boundary",
+                        &format!(
+                            "unknown boundary '{other}'{} (open or truncated)",
+                            hint(other, &["open", "truncated"])
+                        ),
+                    ))
+                }
+            };
+            (s.positive("radius", Dimension::Length)?, open)
         }
-        None => None,
+        None => (None, true),
     };
     let mesh = match top.table("mesh")? {
         Some(s) => parse_mesh(&s)?,
@@ -98,6 +111,7 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         windings,
         background_b,
         air_radius,
+        open_boundary,
         mesh,
         newton,
     };

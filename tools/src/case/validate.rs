@@ -2,9 +2,13 @@
 
 use super::{Case, CaseError, CoreShape, Winding};
 
-/// The automatic air radius is this multiple of the farthest source point. The truncation
-/// bias of the dipole scales like (source radius / air radius)³ (see the README), ~1e-4 here.
+/// With a truncated boundary the automatic air radius is this multiple of the farthest source
+/// point. The truncation bias of the dipole scales like (source radius / air radius)³ (see the
+/// README), ~1e-4 here.
 pub const AUTO_AIR_FACTOR: f64 = 20.0;
+/// With the exact open boundary the automatic air radius is this multiple: only the ball of
+/// the field-route check (1.5×) and room to grade the mesh are needed.
+pub const AUTO_OPEN_AIR_FACTOR: f64 = 3.0;
 /// The ball used for the field-route dipole check has this multiple of the source radius.
 pub const BALL_FACTOR: f64 = 1.5;
 /// The air radius must be at least this multiple of the source radius.
@@ -35,8 +39,12 @@ impl Case {
 
     /// Radius of the meshed air sphere in m (given, or automatic).
     pub fn effective_air_radius(&self) -> f64 {
-        self.air_radius
-            .unwrap_or(AUTO_AIR_FACTOR * self.source_radius())
+        let factor = if self.open_boundary {
+            AUTO_OPEN_AIR_FACTOR
+        } else {
+            AUTO_AIR_FACTOR
+        };
+        self.air_radius.unwrap_or(factor * self.source_radius())
     }
 }
 
