@@ -58,7 +58,7 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
     let mut spec = MeshSpec::new(ro, AIR_TAG);
     spec.grading = case.mesh.grading.unwrap_or(0.15 / f);
     spec.min_angle_deg = case.mesh.min_angle_deg;
-    spec.arc_tolerance = case.mesh.arc_tolerance;
+    spec.arc_tolerance = case.mesh.effective_arc_tolerance();
     spec.max_nodes = case.mesh.max_nodes;
     spec.far_size = case.mesh.far_size.unwrap_or(ro / (6.0 * f));
     spec.interior_arcs = vec![ball_radius(case)];

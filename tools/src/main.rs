@@ -3,6 +3,7 @@
 use std::path::PathBuf;
 use std::process::ExitCode;
 
+use axicore::accuracy::{self, Controlled};
 use axicore::case::{builtin_materials, find_material, parse_case, read_case_file, Case};
 use axicore::pipeline::{discretise, run, RunError, RunOptions};
 use axicore::report::summary;
@@ -65,6 +66,16 @@ enum Command {
         /// Worker threads for element loops (default: all cores).
         #[arg(long)]
         threads: Option<usize>,
+        /// Refine until the estimated relative error of the dipole moment is at most this
+        /// (e.g. 1e-3); reports the estimate and the refinement history.
+        #[arg(long, value_name = "REL")]
+        tolerance: Option<f64>,
+        /// Node cap for --tolerance (default 2000000).
+        #[arg(long, value_name = "N", requires = "tolerance")]
+        max_nodes: Option<usize>,
+        /// Draw the --tolerance history (unknowns against estimated error) as an SVG plot.
+        #[arg(long, value_name = "FILE", requires = "tolerance")]
+        history_svg: Option<PathBuf>,
     },
     /// Mesh a case and print mesh statistics.
     Mesh {
@@ -230,6 +241,50 @@ fn materials(name: Option<String>, csv: bool) -> Result<(), Failure> {
     Ok(())
 }
 
+fn history_text(c: &Controlled, tolerance: f64) -> String {
+    let mut s = format!(
+        "Error control: estimated relative error of the dipole {:.2e} ({} the tolerance {tolerance:.1e})\n",
+        c.estimated_relative_error,
+        if c.reached { "within" } else { "NOT within — node cap reached;" }
+    );
+    s.push_str("  fineness      nodes   unknowns     dipole/A·m²   est. rel. error  order\n");
+    for l in &c.levels {
+        s.push_str(&format!(
+            "  {:>8.3} {:>10} {:>10} {:>15.9e} {:>16} {:>6}\n",
+            l.fineness,
+            l.nodes,
+            l.unknowns,
+            l.dipole_moment_Am2,
+            l.estimated_relative_error
+                .map_or("-".into(), |e| format!("{e:.2e}")),
+            l.order.map_or("-".into(), |p| format!("{p:.2}"))
+        ));
+    }
+    s.push('\n');
+    s
+}
+
+fn history_plot(c: &Controlled) -> Result<String, axicore::plot::PlotError> {
+    use axicore::plot::{render_svg, Chart, Scale, Series};
+    let pts: Vec<(f64, f64)> = c
+        .levels
+        .iter()
+        .filter_map(|l| l.estimated_relative_error.map(|e| (l.unknowns as f64, e)))
+        .collect();
+    let chart = Chart {
+        title: "Estimated relative error of the dipole moment".into(),
+        x_label: "unknowns".into(),
+        y_label: "estimated relative error".into(),
+        x_scale: Scale::Log10,
+        y_scale: Scale::Log10,
+        series: vec![
+            Series::line("uniform refinement (fineness × √2 per level)", pts).with_markers(),
+        ],
+        marks: Vec::new(),
+    };
+    render_svg(&chart, 800, 500)
+}
+
 fn ramp_command(
     case: &Case,
     to: &str,
@@ -339,8 +394,18 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             point,
             timings,
             threads,
+            tolerance,
+            max_nodes,
+            history_svg,
         } => {
             let case = load(&case)?;
+            if let Some(t) = tolerance {
+                if !(t.is_finite() && t > 0.0 && t < 1.0) {
+                    return Err(input_error(format!(
+                        "--tolerance: {t} must be a relative error between 0 and 1"
+                    )));
+                }
+            }
             let mut opts = RunOptions {
                 vtk: vtk.is_some(),
                 ..Default::default()
@@ -351,7 +416,25 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             if let Some(l) = &line {
                 opts.line = Some(parse_line(l)?);
             }
-            let work = || run(&case, &opts);
+            let work = || -> Result<(axicore::pipeline::Outcome, Option<Controlled>), RunError> {
+                match tolerance {
+                    Some(t) => {
+                        let cap = max_nodes.unwrap_or(2_000_000);
+                        let c = accuracy::run_to_tolerance(&case, &opts, t, cap)?;
+                        let outcome = c.outcome;
+                        let rest = Controlled {
+                            outcome: axicore::pipeline::Outcome {
+                                report: outcome.report.clone(),
+                                line_csv: None,
+                                vtk: None,
+                            },
+                            ..c
+                        };
+                        Ok((outcome, Some(rest)))
+                    }
+                    None => Ok((run(&case, &opts)?, None)),
+                }
+            };
             let outcome = match threads {
                 Some(0) => return Err(input_error("--threads must be at least 1".into())),
                 Some(n) => rayon::ThreadPoolBuilder::new()
@@ -365,7 +448,15 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                 None => work(),
             }
             .map_err(run_failure)?;
+            let (outcome, controlled) = outcome;
             let mut files = Vec::new();
+            if let (Some(path), Some(c)) = (history_svg, &controlled) {
+                let svg = history_plot(c).map_err(|e| Failure {
+                    code: 1,
+                    message: e.to_string(),
+                })?;
+                files.push((path, svg.into_bytes()));
+            }
             if let (Some(path), Some(bytes)) = (vtk, outcome.vtk) {
                 files.push((path, bytes));
             }
@@ -381,6 +472,12 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                     code: 1,
                     message: e.to_string(),
                 })?;
+                if let Some(c) = &controlled {
+                    v["estimated_relative_error"] = serde_json::json!(c.estimated_relative_error);
+                    v["tolerance"] = serde_json::json!(tolerance);
+                    v["tolerance_reached"] = serde_json::json!(c.reached);
+                    v["convergence_history"] = serde_json::to_value(&c.levels).unwrap_or_default();
+                }
                 if timings {
                     v["timings_s"] =
                         serde_json::to_value(outcome.report.timings_s).map_err(|e| Failure {
@@ -390,6 +487,9 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                 }
                 println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
             } else {
+                if let Some(c) = &controlled {
+                    print!("{}", history_text(c, tolerance.unwrap_or(0.0)));
+                }
                 print!("{}", summary(&outcome.report, timings));
             }
             Ok(())

@@ -184,9 +184,20 @@ pub struct MeshControls {
     /// Minimum triangle angle in degrees.
     pub min_angle_deg: f64,
     /// Relative chord sagitta allowed on curved boundaries.
-    pub arc_tolerance: f64,
+    pub arc_tolerance: Option<f64>,
     /// Node cap.
     pub max_nodes: usize,
+}
+
+impl MeshControls {
+    /// Relative chord sagitta of curved outlines: given, or 1e-4/fineness², so that the
+    /// geometric error of the polygon (of the order of the sagitta) shrinks like the
+    /// discretisation error of first-order elements (h²) instead of freezing at one value.
+    pub fn effective_arc_tolerance(&self) -> f64 {
+        self.arc_tolerance
+            .unwrap_or(1e-4 / (self.fineness * self.fineness))
+            .min(0.05)
+    }
 }
 
 impl Default for MeshControls {
@@ -199,7 +210,7 @@ impl Default for MeshControls {
             far_size: None,
             grading: None,
             min_angle_deg: 25.0,
-            arc_tolerance: 1e-4,
+            arc_tolerance: None,
             max_nodes: 2_000_000,
         }
     }

@@ -413,10 +413,8 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
             "above 30 degrees refinement may not terminate; use ≤ 30",
         ));
     }
-    let arc_tolerance = s
-        .positive("arc_tolerance", Dimension::Dimensionless)?
-        .unwrap_or(d.arc_tolerance);
-    if arc_tolerance > 0.05 {
+    let arc_tolerance = s.positive("arc_tolerance", Dimension::Dimensionless)?;
+    if arc_tolerance.is_some_and(|t| t > 0.05) {
         return Err(s.fault("arc_tolerance", "must be ≤ 0.05 (relative chord sagitta)"));
     }
     let fineness = s
