@@ -94,12 +94,10 @@ impl Model {
         }
         let mut r = self.residual(&a, exc);
         report.residual_history.push(norm(&r) / scale);
-        let mut last_update = f64::INFINITY;
+        // The tangent at the current point when the line search already assembled it.
+        let mut tangent: Option<Vec<f64>> = None;
         loop {
             let rel = *report.residual_history.last().unwrap_or(&f64::INFINITY);
-            if rel <= settings.residual_tol && last_update <= settings.update_tol {
-                return Ok((Solution { a, b0: exc.b0 }, report));
-            }
             if !rel.is_finite() || report.iterations >= settings.max_iterations {
                 return Err(SolverError::NotConverged {
                     iterations: report.iterations,
@@ -112,10 +110,27 @@ impl Model {
                     history: report.residual_history,
                 });
             }
-            let factor = self.tangent(&a, exc)?;
+            let values = match tangent.take() {
+                Some(v) => v,
+                None => self.assemble(&a, exc, true).1,
+            };
+            let factor = self.symbolic.factorize(&values)?;
             let mut delta = r.iter().map(|v| -v).collect::<Vec<_>>();
             factor.solve_in_place(&mut delta);
-            let (alpha, r_new) = self.line_search(&a, &delta, &r, exc);
+            let a_norm = self.free_norm(&a);
+            let full_step = norm(&delta) / if a_norm > 0.0 { a_norm } else { 1.0 };
+            if rel <= settings.residual_tol && full_step <= settings.update_tol {
+                // Converged: the residual is small and so is the last Newton correction,
+                // which is applied (its effect on the residual is quadratically small).
+                for (i, d) in delta.iter().enumerate() {
+                    a[self.dofs.free_nodes[i] as usize] += d;
+                }
+                report.iterations += 1;
+                report.update_history.push(full_step);
+                report.step_lengths.push(1.0);
+                return Ok((Solution { a, b0: exc.b0 }, report));
+            }
+            let (alpha, r_new, t_new) = self.line_search(&a, &delta, &r, exc);
             let mut step2 = 0.0;
             for (i, d) in delta.iter().enumerate() {
                 step2 += (alpha * d) * (alpha * d);
@@ -123,15 +138,16 @@ impl Model {
                 a[node] += alpha * d;
             }
             let a_norm = self.free_norm(&a);
-            last_update = if a_norm > 0.0 {
+            let update = if a_norm > 0.0 {
                 step2.sqrt() / a_norm
             } else {
                 step2.sqrt()
             };
             r = r_new;
+            tangent = t_new;
             report.iterations += 1;
             report.residual_history.push(norm(&r) / scale);
-            report.update_history.push(last_update);
+            report.update_history.push(update);
             report.step_lengths.push(alpha);
         }
     }
@@ -328,13 +344,15 @@ impl Model {
 
     /// Global residual over the free unknowns (scattered in element order: deterministic).
     fn residual(&self, a: &[f64], exc: Excitation<'_>) -> Vec<f64> {
+        self.assemble(a, exc, false).0
+    }
+
+    /// Residual over the free unknowns and, if `with_tangent`, the tangent's values on the
+    /// pattern (empty otherwise), from one pass over the elements.
+    fn assemble(&self, a: &[f64], exc: Excitation<'_>, with_tangent: bool) -> (Vec<f64>, Vec<f64>) {
+        let terms = self.element_terms(a, exc, with_tangent);
         let mut out = vec![0.0; self.dofs.n_free];
-        for (tri, (r, _)) in self
-            .mesh
-            .triangles
-            .iter()
-            .zip(self.element_terms(a, exc, false))
-        {
+        for (tri, (r, _)) in self.mesh.triangles.iter().zip(&terms) {
             for k in 0..3 {
                 if let Some(i) = self.dofs.free(tri[k]) {
                     out[i] += r[k];
@@ -342,51 +360,52 @@ impl Model {
             }
         }
         self.add_exterior_residual(a, &mut out);
-        out
+        let mut values = Vec::new();
+        if with_tangent {
+            values = vec![0.0; self.pattern.nnz()];
+            for ((_, t), slots) in terms.iter().zip(&self.pattern.slots) {
+                for k in 0..3 {
+                    for l in 0..3 {
+                        let s = slots[3 * k + l];
+                        if s != NO_SLOT {
+                            values[s as usize] += t[k][l];
+                        }
+                    }
+                }
+            }
+            self.add_exterior_matrix(&mut values);
+        }
+        (out, values)
     }
 
     /// Assembles and factorises the tangent at `a`.
     fn tangent(&self, a: &[f64], exc: Excitation<'_>) -> Result<SpdFactor<'_>, SolverError> {
-        let mut values = vec![0.0; self.pattern.nnz()];
-        for ((_, t), slots) in self
-            .element_terms(a, exc, true)
-            .iter()
-            .zip(&self.pattern.slots)
-        {
-            for k in 0..3 {
-                for l in 0..3 {
-                    let s = slots[3 * k + l];
-                    if s != NO_SLOT {
-                        values[s as usize] += t[k][l];
-                    }
-                }
-            }
-        }
-        self.add_exterior_matrix(&mut values);
-        self.symbolic.factorize(&values)
+        self.symbolic.factorize(&self.assemble(a, exc, true).1)
     }
 
-    /// Step length along `delta` from `a` (residual `r0` there) and the residual at the new
-    /// point: 1 if the full step lowers ‖R‖, else the minimiser of the energy on the line.
+    /// Step length along `delta` from `a` (residual `r0` there), the residual at the new point
+    /// and, for a full step, the tangent there (assembled in the same pass, as full steps are
+    /// the rule): 1 if the full step lowers ‖R‖, else the minimiser of the energy on the line.
     fn line_search(
         &self,
         a: &[f64],
         delta: &[f64],
         r0: &[f64],
         exc: Excitation<'_>,
-    ) -> (f64, Vec<f64>) {
-        let at = |alpha: f64| {
-            let mut trial = a.to_vec();
+    ) -> (f64, Vec<f64>, Option<Vec<f64>>) {
+        let trial = |alpha: f64| {
+            let mut t = a.to_vec();
             for (i, d) in delta.iter().enumerate() {
-                trial[self.dofs.free_nodes[i] as usize] += alpha * d;
+                t[self.dofs.free_nodes[i] as usize] += alpha * d;
             }
-            self.residual(&trial, exc)
+            t
         };
-        let r1 = at(1.0);
+        let at = |alpha: f64| self.residual(&trial(alpha), exc);
+        let (r1, t1) = self.assemble(&trial(1.0), exc, true);
         let g1 = dot(&r1, delta);
         if norm(&r1) < norm(r0) || g1 <= 0.0 {
             // Full step: it lowers the residual, or the energy still decreases at α = 1.
-            return (1.0, r1);
+            return (1.0, r1, Some(t1));
         }
         // g(0) = −δᵀTδ < 0 < g(1) and g increases: Illinois regula falsi for its root.
         let (mut lo, mut glo) = (0.0, dot(r0, delta));
@@ -417,7 +436,7 @@ impl Model {
                 side = 1;
             }
         }
-        best
+        (best.0, best.1, None)
     }
 }
 
