@@ -11,6 +11,83 @@ struct Boundary {
     size: f64,
 }
 
+/// Refinement points in a bucket grid: "is any size + g·dist below len near p?" visits only the
+/// buckets within reach.
+struct Cloud {
+    origin: Point,
+    cell: f64,
+    nx: usize,
+    nz: usize,
+    buckets: Vec<Vec<(Point, f64)>>,
+    smallest: f64,
+}
+
+impl Cloud {
+    fn new(points: &[(Point, f64)]) -> Option<Self> {
+        if points.is_empty() {
+            return None;
+        }
+        let ends: Vec<Point> = points.iter().map(|p| p.0).collect();
+        let [r0, r1, z0, z1] = bounding_box(&ends);
+        let smallest = points.iter().map(|p| p.1).fold(f64::INFINITY, f64::min);
+        let extent = (r1 - r0).max(z1 - z0).max(smallest);
+        // About 64² buckets at most, none smaller than the smallest size.
+        let cell = (extent / 64.0).max(smallest);
+        let nx = ((r1 - r0) / cell) as usize + 1;
+        let nz = ((z1 - z0) / cell) as usize + 1;
+        let mut buckets = vec![Vec::new(); nx * nz];
+        for &(p, s) in points {
+            let i = (((p[0] - r0) / cell) as usize).min(nx - 1);
+            let k = (((p[1] - z0) / cell) as usize).min(nz - 1);
+            buckets[k * nx + i].push((p, s));
+        }
+        Some(Self {
+            origin: [r0, z0],
+            cell,
+            nx,
+            nz,
+            buckets,
+            smallest,
+        })
+    }
+
+    /// Whether some point asks for less than `len` at `p` with grading `g`.
+    fn exceeded_by(&self, len: f64, p: Point, g: f64) -> bool {
+        if len <= self.smallest {
+            return false;
+        }
+        let reach = if g > 0.0 {
+            (len - self.smallest) / g
+        } else {
+            f64::INFINITY
+        };
+        let span = |x: f64, o: f64, n: usize| -> (usize, usize) {
+            let lo = ((x - reach - o) / self.cell).floor().max(0.0);
+            let hi = ((x + reach - o) / self.cell).floor().min(n as f64 - 1.0);
+            (lo as usize, hi.max(-1.0) as usize)
+        };
+        let (i0, i1) = span(p[0], self.origin[0], self.nx);
+        let (k0, k1) = span(p[1], self.origin[1], self.nz);
+        if p[0] + reach < self.origin[0]
+            || p[1] + reach < self.origin[1]
+            || p[0] - reach > self.origin[0] + self.cell * self.nx as f64
+            || p[1] - reach > self.origin[1] + self.cell * self.nz as f64
+        {
+            return false;
+        }
+        for k in k0..=k1.min(self.nz - 1) {
+            for i in i0..=i1.min(self.nx - 1) {
+                for &(at, size) in &self.buckets[k * self.nx + i] {
+                    if len > size + g * (p[0] - at[0]).hypot(p[1] - at[1]) {
+                        return true;
+                    }
+                }
+            }
+        }
+        false
+    }
+}
+
 /// Target element size as a function of position.
 pub(crate) struct SizeField<'a> {
     far: f64,
@@ -19,6 +96,7 @@ pub(crate) struct SizeField<'a> {
     region_sizes: Vec<f64>,
     points: Vec<(Point, f64)>,
     boundaries: Vec<Boundary>,
+    cloud: Option<Cloud>,
     floor: f64,
 }
 
@@ -28,9 +106,11 @@ impl<'a> SizeField<'a> {
         let region_sizes: Vec<f64> = spec.regions.iter().map(|r| r.size).collect();
         let mut points = Vec::new();
         let mut boundaries = Vec::new();
+        let mut cloud_points = Vec::new();
         for refinement in &spec.refinements {
             match *refinement {
                 Refinement::Point { at, size } => points.push((at, size)),
+                Refinement::Cloud { ref points } => cloud_points.extend_from_slice(points),
                 Refinement::Boundary { region, size } => {
                     let v = &outlines[region].vertices;
                     let segments: Vec<[Point; 2]> = (0..v.len())
@@ -50,8 +130,10 @@ impl<'a> SizeField<'a> {
         let floor = region_sizes
             .iter()
             .chain(points.iter().map(|p| &p.1))
+            .chain(cloud_points.iter().map(|p| &p.1))
             .chain(boundaries.iter().map(|b| &b.size))
             .fold(spec.far_size, |m, &s| m.min(s));
+        let cloud = Cloud::new(&cloud_points);
         Self {
             far: spec.far_size,
             grading: spec.grading,
@@ -59,6 +141,7 @@ impl<'a> SizeField<'a> {
             region_sizes,
             points,
             boundaries,
+            cloud,
             floor,
         }
     }
@@ -89,6 +172,13 @@ impl<'a> SizeField<'a> {
             }
             for s in &b.segments {
                 h = h.min(b.size + self.grading * segment_distance(p, s[0], s[1]).0);
+            }
+        }
+        if let Some(c) = &self.cloud {
+            for bucket in &c.buckets {
+                for &(at, size) in bucket {
+                    h = h.min(size + self.grading * (p[0] - at[0]).hypot(p[1] - at[1]));
+                }
             }
         }
         h
@@ -123,6 +213,9 @@ impl<'a> SizeField<'a> {
                     return true;
                 }
             }
+        }
+        if let Some(c) = &self.cloud {
+            return c.exceeded_by(len, p, g);
         }
         false
     }
@@ -194,6 +287,42 @@ mod tests {
             let h = f.target(p, region);
             assert!(f.exceeded_by(h * 1.001, p, region));
             assert!(!f.exceeded_by(h * 0.999, p, region));
+        }
+    }
+
+    #[test]
+    fn cloud_lookup_agrees_with_the_brute_force_minimum() {
+        // 400 scattered points with sizes over three decades; the bucket grid must answer
+        // exactly what the linear scan in `target` answers.
+        let mut s = spec();
+        let mut x: u64 = 12345;
+        let mut next = || {
+            x = x
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (x >> 11) as f64 / (1u64 << 53) as f64
+        };
+        let points: Vec<(Point, f64)> = (0..400)
+            .map(|_| {
+                (
+                    [0.6 * next(), 0.8 * next() - 0.4],
+                    1e-4 * 10f64.powf(3.0 * next()),
+                )
+            })
+            .collect();
+        s.refinements.push(Refinement::Cloud { points });
+        let outlines: Vec<Outline> = s
+            .regions
+            .iter()
+            .map(|r| Outline::new(&r.shape, 1e-4))
+            .collect();
+        let f = SizeField::new(&s, &outlines);
+        for _ in 0..2000 {
+            let p = [0.9 * next(), 1.8 * next() - 0.9];
+            let region = f.region_at(p);
+            let h = f.target(p, region);
+            assert!(f.exceeded_by(h * 1.000_001, p, region), "{p:?} {h}");
+            assert!(!f.exceeded_by(h * 0.999_999, p, region), "{p:?} {h}");
         }
     }
 }

@@ -72,6 +72,12 @@ pub enum Refinement {
         /// Element size on the boundary (m).
         size: f64,
     },
+    /// Many points with their sizes, e.g. from an error indicator (adaptive refinement); looked
+    /// up through a bucket grid, so thousands cost little.
+    Cloud {
+        /// (location (r, z), element size there), in m.
+        points: Vec<(Point, f64)>,
+    },
 }
 
 /// Everything [`crate::build_mesh`] needs.

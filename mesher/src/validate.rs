@@ -92,6 +92,13 @@ pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
                 finite("refinement point z", at[1])?;
                 positive("refinement size", size)?;
             }
+            Refinement::Cloud { ref points } => {
+                for &(at, size) in points {
+                    finite("refinement point r", at[0])?;
+                    finite("refinement point z", at[1])?;
+                    positive("refinement size", size)?;
+                }
+            }
             Refinement::Boundary { region, size } => {
                 positive("refinement size", size)?;
                 if region >= spec.regions.len() {

@@ -3,7 +3,7 @@
 use std::path::PathBuf;
 use std::process::ExitCode;
 
-use axicore::accuracy::{self, Controlled};
+use axicore::accuracy::{self, History};
 use axicore::case::{builtin_materials, find_material, parse_case, read_case_file, Case};
 use axicore::pipeline::{discretise, run, RunError, RunOptions};
 use axicore::report::summary;
@@ -73,6 +73,14 @@ enum Command {
         /// Node cap for --tolerance (default 2000000).
         #[arg(long, value_name = "N", requires = "tolerance")]
         max_nodes: Option<usize>,
+        /// Refinement between --tolerance levels: "uniform" (default) or "adaptive".
+        #[arg(
+            long,
+            value_name = "MODE",
+            requires = "tolerance",
+            default_value = "uniform"
+        )]
+        refine: String,
         /// Draw the --tolerance history (unknowns against estimated error) as an SVG plot.
         #[arg(long, value_name = "FILE", requires = "tolerance")]
         history_svg: Option<PathBuf>,
@@ -241,17 +249,17 @@ fn materials(name: Option<String>, csv: bool) -> Result<(), Failure> {
     Ok(())
 }
 
-fn history_text(c: &Controlled, tolerance: f64) -> String {
+fn history_text(c: &History, tolerance: f64) -> String {
     let mut s = format!(
         "Error control: estimated relative error of the dipole {:.2e} ({} the tolerance {tolerance:.1e})\n",
         c.estimated_relative_error,
         if c.reached { "within" } else { "NOT within — node cap reached;" }
     );
-    s.push_str("  fineness      nodes   unknowns     dipole/A·m²   est. rel. error  order\n");
-    for l in &c.levels {
+    s.push_str("  level      nodes   unknowns     dipole/A·m²   est. rel. error  order\n");
+    for (k, l) in c.levels.iter().enumerate() {
         s.push_str(&format!(
-            "  {:>8.3} {:>10} {:>10} {:>15.9e} {:>16} {:>6}\n",
-            l.fineness,
+            "  {:>5} {:>10} {:>10} {:>15.9e} {:>16} {:>6}\n",
+            k,
             l.nodes,
             l.unknowns,
             l.dipole_moment_Am2,
@@ -264,7 +272,7 @@ fn history_text(c: &Controlled, tolerance: f64) -> String {
     s
 }
 
-fn history_plot(c: &Controlled) -> Result<String, axicore::plot::PlotError> {
+fn history_plot(c: &History) -> Result<String, axicore::plot::PlotError> {
     use axicore::plot::{render_svg, Chart, Scale, Series};
     let pts: Vec<(f64, f64)> = c
         .levels
@@ -396,8 +404,18 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             threads,
             tolerance,
             max_nodes,
+            refine,
             history_svg,
         } => {
+            let refine = match refine.as_str() {
+                "uniform" => accuracy::Refine::Uniform,
+                "adaptive" => accuracy::Refine::Adaptive,
+                other => {
+                    return Err(input_error(format!(
+                        "--refine: '{other}' must be uniform or adaptive"
+                    )))
+                }
+            };
             let case = load(&case)?;
             if let Some(t) = tolerance {
                 if !(t.is_finite() && t > 0.0 && t < 1.0) {
@@ -416,21 +434,12 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             if let Some(l) = &line {
                 opts.line = Some(parse_line(l)?);
             }
-            let work = || -> Result<(axicore::pipeline::Outcome, Option<Controlled>), RunError> {
+            let work = || -> Result<(axicore::pipeline::Outcome, Option<History>), RunError> {
                 match tolerance {
                     Some(t) => {
                         let cap = max_nodes.unwrap_or(2_000_000);
-                        let c = accuracy::run_to_tolerance(&case, &opts, t, cap)?;
-                        let outcome = c.outcome;
-                        let rest = Controlled {
-                            outcome: axicore::pipeline::Outcome {
-                                report: outcome.report.clone(),
-                                line_csv: None,
-                                vtk: None,
-                            },
-                            ..c
-                        };
-                        Ok((outcome, Some(rest)))
+                        let c = accuracy::run_to_tolerance(&case, &opts, t, cap, refine)?;
+                        Ok((c.outcome, Some(c.history)))
                     }
                     None => Ok((run(&case, &opts)?, None)),
                 }

@@ -6,6 +6,7 @@ use std::time::Instant;
 use axicore_mesher::{build_mesh, MeshError, NodeKind};
 use axicore_solver::exterior::OpenBoundary;
 use axicore_solver::locate::Locator;
+use axicore_solver::post::indicator::{self, ElementIndicator};
 use axicore_solver::post::{dipole, energy, flux, probe};
 use axicore_solver::{FeMesh, Model, Problem, RegionProps, SolverError};
 
@@ -23,6 +24,10 @@ pub struct RunOptions {
     pub line: Option<([f64; 2], [f64; 2], usize)>,
     /// Produce the VTK file contents.
     pub vtk: bool,
+    /// Compute per-element error indicators (for adaptive refinement).
+    pub indicators: bool,
+    /// Extra refinement points (location, size in m), e.g. from a previous level's indicators.
+    pub refine_at: Vec<([f64; 2], f64)>,
 }
 
 /// Everything a run produces.
@@ -34,6 +39,8 @@ pub struct Outcome {
     pub line_csv: Option<String>,
     /// VTK (.vtu) bytes, if asked.
     pub vtk: Option<Vec<u8>>,
+    /// Per-element error indicators, if asked.
+    pub indicators: Option<Vec<ElementIndicator>>,
 }
 
 /// Why a run failed after the case was accepted.
@@ -60,7 +67,20 @@ pub struct Discretised {
 
 /// Meshes the case and poses the field problem (no solve).
 pub fn discretise(case: &Case) -> Result<Discretised, RunError> {
-    let spec = geometry::mesh_spec(case);
+    discretise_refined(case, &[])
+}
+
+/// As [`discretise`], with extra refinement points (location, size in m).
+pub fn discretise_refined(
+    case: &Case,
+    refine_at: &[([f64; 2], f64)],
+) -> Result<Discretised, RunError> {
+    let mut spec = geometry::mesh_spec(case);
+    if !refine_at.is_empty() {
+        spec.refinements.push(axicore_mesher::Refinement::Cloud {
+            points: refine_at.to_vec(),
+        });
+    }
     let mesh = build_mesh(&spec)?;
     let mut regions = vec![RegionProps::air(); 2 + case.windings.len()];
     if let Some(core) = &case.core {
@@ -119,7 +139,7 @@ fn exterior_modes(radius_ratio: f64, arc_nodes: usize) -> usize {
 /// Runs a case.
 pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
     let t0 = Instant::now();
-    let Discretised { mesh, problem } = discretise(case)?;
+    let Discretised { mesh, problem } = discretise_refined(case, &opts.refine_at)?;
     let stats = mesh.stats();
     let t_mesh = t0.elapsed().as_secs_f64();
 
@@ -236,6 +256,9 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         None
     };
     let w_energy = energy::energy(&model, &sol);
+    let indicators = opts
+        .indicators
+        .then(|| indicator::energy_indicators(&model, &sol, &locator));
     let t_post = t3.elapsed().as_secs_f64();
 
     let per_tag = |tag: u32| {
@@ -289,5 +312,6 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         report,
         line_csv,
         vtk,
+        indicators,
     })
 }

@@ -3,6 +3,7 @@
 pub mod dipole;
 pub mod energy;
 pub mod flux;
+pub mod indicator;
 pub mod peak;
 pub mod probe;
 pub mod saturation;
