@@ -44,6 +44,11 @@ fn target_size(spec: &MeshSpec, p: [f64; 2]) -> f64 {
             Refinement::Point { at, size } => {
                 h = h.min(size + spec.grading * (p[0] - at[0]).hypot(p[1] - at[1]));
             }
+            Refinement::Cloud { ref points } => {
+                for &(at, size) in points {
+                    h = h.min(size + spec.grading * (p[0] - at[0]).hypot(p[1] - at[1]));
+                }
+            }
             Refinement::Boundary { region, size } => {
                 let c = corners(&spec.regions[region].shape);
                 for i in 0..4 {
