@@ -209,3 +209,33 @@ fn torquer_rod_size_and_speed_report() {
         "{stats:?}"
     );
 }
+
+#[test]
+fn cloud_refinement_points_are_honoured_like_single_points() {
+    // Adaptive refinement adds clouds of points; the same longest-edge guarantee must hold
+    // with them (reference size function above, written independently of the bucket grid).
+    let mut spec = torquer_spec();
+    let points: Vec<([f64; 2], f64)> = (0..40)
+        .map(|k| {
+            let t = k as f64 / 40.0;
+            ([0.004 + 0.01 * t, -0.03 + 0.06 * t], 2e-4 + 1e-4 * t)
+        })
+        .collect();
+    spec.refinements.push(Refinement::Cloud { points });
+    let mesh = build_mesh(&spec).expect("the refined spec meshes");
+    check_invariants(&mesh, &spec);
+    for t in 0..mesh.triangles.len() {
+        let p = mesh.triangles[t].map(|v| mesh.nodes[v as usize]);
+        let c = [
+            (p[0][0] + p[1][0] + p[2][0]) / 3.0,
+            (p[0][1] + p[1][1] + p[2][1]) / 3.0,
+        ];
+        let longest = (0..3)
+            .map(|k| (p[k][0] - p[(k + 1) % 3][0]).hypot(p[k][1] - p[(k + 1) % 3][1]))
+            .fold(0.0, f64::max);
+        assert!(
+            longest <= target_size(&spec, c) * (1.0 + 1e-9),
+            "triangle {t}"
+        );
+    }
+}
