@@ -5,14 +5,15 @@
 //! element size shrinks by √2 and curved outlines follow (their sagitta is 1e-4/fineness²).
 //!
 //! **Refinement**, adaptive: each level solves the case on a mesh refined at the previous levels' marked
-//! elements: the per-element indicator (`axicore_solver::post::indicator`) ranks the elements,
+//! elements: the goal-oriented indicator for the moment (`axicore_solver::post::indicator`)
+//! ranks the elements,
 //! the largest ones holding half of the total (Dörfler's bulk criterion, SIAM J. Numer. Anal.
 //! 33, 1106, 1996, with θ = 0.5) get a refinement point at their centroid asking for half their
 //! size, and the mesher grades around the accumulated points. Measured: it pays on smooth
 //! problems (sphere, μr = 1000: 6.3e-5 true error on 79k unknowns against 9.0e-5 on 77k
-//! uniform) but not on the built-in rod, whose energy indicator is dominated by the singular
-//! core corners that matter little for the moment (1.5e-4 on 70k unknowns against about
-//! 1e-4 uniform): a goal-oriented indicator is the next step, so uniform is the default.
+//! uniform) but not yet on the built-in rod (1.6e-4 on 67k unknowns against about 1e-4
+//! uniform: the marked elements cluster at the singular core corners), so uniform is the
+//! default.
 //!
 //! Each level is a fresh mesh and a fresh solve of the case plus its refinement points, so the
 //! result stays a pure function of the case, the tolerance and the mode.
@@ -149,17 +150,17 @@ pub fn run_to_tolerance(
 /// Refinement points of the elements that hold [`MARKED_SHARE`] of the total indicator,
 /// largest first: their centroids, asking for half their size.
 fn marked(ind: &[ElementIndicator]) -> Vec<([f64; 2], f64)> {
-    let total: f64 = ind.iter().map(|i| i.eta2).sum();
+    let total: f64 = ind.iter().map(|i| i.weight).sum();
     let mut order: Vec<usize> = (0..ind.len()).collect();
     // Largest first; ties by index keep the order deterministic.
-    order.sort_by(|&a, &b| ind[b].eta2.total_cmp(&ind[a].eta2).then(a.cmp(&b)));
+    order.sort_by(|&a, &b| ind[b].weight.total_cmp(&ind[a].weight).then(a.cmp(&b)));
     let mut sum = 0.0;
     let mut out = Vec::new();
     for k in order {
         if sum >= MARKED_SHARE * total {
             break;
         }
-        sum += ind[k].eta2;
+        sum += ind[k].weight;
         out.push((ind[k].centroid, 0.5 * ind[k].size));
     }
     out
@@ -240,10 +241,10 @@ mod tests {
         let ind: Vec<ElementIndicator> = [1.0, 8.0, 2.0, 4.0]
             .iter()
             .enumerate()
-            .map(|(i, &eta2)| ElementIndicator {
+            .map(|(i, &weight)| ElementIndicator {
                 centroid: [i as f64, 0.0],
                 size: 2.0,
-                eta2,
+                weight,
             })
             .collect();
         // Total 15: 8 alone is above 7.5.

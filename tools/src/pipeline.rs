@@ -256,9 +256,11 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
         None
     };
     let w_energy = energy::energy(&model, &sol);
-    let indicators = opts
-        .indicators
-        .then(|| indicator::energy_indicators(&model, &sol, &locator));
+    let indicators = if opts.indicators {
+        Some(indicator::goal_indicators(&model, &sol, &locator)?)
+    } else {
+        None
+    };
     let t_post = t3.elapsed().as_secs_f64();
 
     let per_tag = |tag: u32| {
