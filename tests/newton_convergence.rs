@@ -167,3 +167,37 @@ fn deeply_saturated_rod_in_a_longer_winding_carries_ms_times_volume() {
     let c = r.core.as_ref().unwrap();
     assert!(c.saturated_fraction.unwrap() > 0.99, "{c:?}");
 }
+
+#[test]
+fn refinement_levels_start_newton_from_the_coarser_field() {
+    // Error control re-solves the case on a finer mesh; a saturating core's Newton iteration
+    // starts from the coarser level's field interpolated to the new mesh. The converged field
+    // does not depend on the start (strictly convex energy), the work does.
+    use axicore::accuracy::{run_to_tolerance, Refine};
+    let case = axicore::case::parse_case(&rod_case(3.0), "warm start").unwrap();
+    let c = run_to_tolerance(
+        &case,
+        &RunOptions::default(),
+        0.5,
+        1_000_000,
+        Refine::Uniform,
+    )
+    .unwrap();
+    let levels = &c.history.levels;
+    assert_eq!(levels.len(), 2, "{levels:?}");
+    let fine = rod_case(3.0).replace("fineness = 0.5", "fineness = 0.7071067811865476");
+    let cold = solve(&fine, &RunOptions::default()).report;
+    assert_eq!(cold.nodes, levels[1].nodes, "same mesh expected");
+    assert!(
+        rel(levels[1].dipole_moment_Am2, cold.dipole_moment_Am2) < 1e-8,
+        "{} vs {}",
+        levels[1].dipole_moment_Am2,
+        cold.dipole_moment_Am2
+    );
+    assert!(
+        levels[1].newton_iterations < cold.newton_iterations,
+        "warm {} vs cold {}",
+        levels[1].newton_iterations,
+        cold.newton_iterations
+    );
+}

@@ -34,7 +34,7 @@ use serde::Serialize;
 use axicore_solver::post::indicator::ElementIndicator;
 
 use crate::case::Case;
-use crate::pipeline::{run, Outcome, RunError, RunOptions};
+use crate::pipeline::{run_from, FieldSnapshot, Outcome, RunError, RunOptions};
 
 /// How the mesh is refined between levels.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -62,6 +62,8 @@ pub struct Level {
     pub estimated_relative_error: Option<f64>,
     /// Convergence order used for the estimate.
     pub order: Option<f64>,
+    /// Newton iterations of the level (0 for a linear core).
+    pub newton_iterations: usize,
 }
 
 /// How an error-controlled run went.
@@ -95,10 +97,12 @@ pub fn run_to_tolerance(
 ) -> Result<Controlled, RunError> {
     let mut levels: Vec<Level> = Vec::new();
     let mut refine_at: Vec<([f64; 2], f64)> = Vec::new();
+    let mut previous: Option<FieldSnapshot> = None;
     loop {
         let level_opts = RunOptions {
             indicators: refine == Refine::Adaptive,
             refine_at: refine_at.clone(),
+            keep_field: true,
             ..opts.clone()
         };
         let mut level_case = case.clone();
@@ -118,7 +122,9 @@ pub fn run_to_tolerance(
                 }
             }
         }
-        let outcome = run(&level_case, &level_opts)?;
+        // Saturating cores start Newton from the previous level's field (warm start).
+        let mut outcome = run_from(&level_case, &level_opts, previous.as_ref())?;
+        previous = outcome.field.take();
         let r = &outcome.report;
         let m = r.dipole_moment_Am2;
         let estimate = estimate(&levels, m, r.unknowns);
@@ -128,6 +134,7 @@ pub fn run_to_tolerance(
             dipole_moment_Am2: m,
             estimated_relative_error: estimate,
             order: estimate.map(|_| ASSUMED_ORDER),
+            newton_iterations: r.newton_iterations,
         });
         let reached = estimate.is_some_and(|e| e <= tolerance);
         let next_too_big = 2.2 * r.nodes as f64 > max_nodes as f64;
@@ -211,6 +218,7 @@ mod tests {
             dipole_moment_Am2: m,
             estimated_relative_error: None,
             order: None,
+            newton_iterations: 0,
         }
     }
 

@@ -255,17 +255,18 @@ fn history_text(c: &History, tolerance: f64) -> String {
         c.estimated_relative_error,
         if c.reached { "within" } else { "NOT within — node cap reached;" }
     );
-    s.push_str("  level      nodes   unknowns     dipole/A·m²   est. rel. error  order\n");
+    s.push_str("  level      nodes   unknowns     dipole/A·m²   est. rel. error  order  Newton\n");
     for (k, l) in c.levels.iter().enumerate() {
         s.push_str(&format!(
-            "  {:>5} {:>10} {:>10} {:>15.9e} {:>16} {:>6}\n",
+            "  {:>5} {:>10} {:>10} {:>15.9e} {:>16} {:>6} {:>7}\n",
             k,
             l.nodes,
             l.unknowns,
             l.dipole_moment_Am2,
             l.estimated_relative_error
                 .map_or("-".into(), |e| format!("{e:.2e}")),
-            l.order.map_or("-".into(), |p| format!("{p:.2}"))
+            l.order.map_or("-".into(), |p| format!("{p:.2}")),
+            l.newton_iterations
         ));
     }
     s.push('\n');

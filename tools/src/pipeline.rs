@@ -8,7 +8,7 @@ use axicore_solver::exterior::OpenBoundary;
 use axicore_solver::locate::Locator;
 use axicore_solver::post::indicator::{self, ElementIndicator};
 use axicore_solver::post::{dipole, energy, flux, probe};
-use axicore_solver::{FeMesh, Model, Problem, RegionProps, SolverError};
+use axicore_solver::{FeMesh, Model, Problem, RegionProps, Solution, SolverError};
 
 use crate::case::Case;
 use crate::geometry::{self, winding_tag, AIR_TAG, CORE_TAG};
@@ -28,6 +28,8 @@ pub struct RunOptions {
     pub indicators: bool,
     /// Extra refinement points (location, size in m), e.g. from a previous level's indicators.
     pub refine_at: Vec<([f64; 2], f64)>,
+    /// Keep the solved field in the outcome (to start a finer level from).
+    pub keep_field: bool,
 }
 
 /// Everything a run produces.
@@ -41,6 +43,28 @@ pub struct Outcome {
     pub vtk: Option<Vec<u8>>,
     /// Per-element error indicators, if asked.
     pub indicators: Option<Vec<ElementIndicator>>,
+    /// The solved field with its model, if asked (`RunOptions::keep_field`), to start the next
+    /// refinement level from.
+    pub field: Option<FieldSnapshot>,
+}
+
+/// A solved field kept for evaluation on another mesh.
+#[derive(Debug)]
+pub struct FieldSnapshot {
+    model: Model,
+    sol: Solution,
+    locator: Locator,
+}
+
+impl FieldSnapshot {
+    /// The reaction potential (total A_φ minus the background's B0 r/2) at `p`, Wb/m; None
+    /// outside the mesh.
+    pub fn reaction_a_at(&self, p: [f64; 2]) -> Option<f64> {
+        self.sol
+            .b_at_point(&self.model, &self.locator, p)
+            .ok()
+            .map(|(_, a, _)| a - 0.5 * self.sol.b0 * p[0])
+    }
 }
 
 /// Why a run failed after the case was accepted.
@@ -138,6 +162,16 @@ fn exterior_modes(radius_ratio: f64, arc_nodes: usize) -> usize {
 
 /// Runs a case.
 pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
+    run_from(case, opts, None)
+}
+
+/// Runs a case; a saturating core's Newton iteration starts from `start` (a solved field on
+/// another mesh of the same case, interpolated to this one) instead of the linear first guess.
+pub fn run_from(
+    case: &Case,
+    opts: &RunOptions,
+    start: Option<&FieldSnapshot>,
+) -> Result<Outcome, RunError> {
     let t0 = Instant::now();
     let Discretised { mesh, problem } = discretise_refined(case, &opts.refine_at)?;
     let stats = mesh.stats();
@@ -154,12 +188,24 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
 
     let t2 = Instant::now();
     let j_full = operating_point::currents(&model, case, 1.0);
+    let start = match (start, &op) {
+        (Some(prev), None) => Some(Solution {
+            a: model
+                .mesh()
+                .nodes
+                .iter()
+                .map(|&p| prev.reaction_a_at(p).unwrap_or(0.0))
+                .collect(),
+            b0: case.background_b,
+        }),
+        _ => None,
+    };
     let (sol, newton) = operating_point::solve_field(
         &model,
         op.as_ref(),
         &j_full,
         case.background_b,
-        None,
+        start.as_ref(),
         &case.newton,
     )?;
     let t_solve = t2.elapsed().as_secs_f64();
@@ -310,10 +356,17 @@ pub fn run(case: &Case, opts: &RunOptions) -> Result<Outcome, RunError> {
             post: t_post,
         },
     };
+    drop(op);
+    let field = opts.keep_field.then(|| FieldSnapshot {
+        model,
+        sol,
+        locator,
+    });
     Ok(Outcome {
         report,
         line_csv,
         vtk,
         indicators,
+        field,
     })
 }
