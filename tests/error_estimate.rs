@@ -7,7 +7,7 @@
 //! ellipsoid H_in + N·M(H_in) = H0 (references.md §2) for the saturating sphere. The factor-3
 //! band is the design requirement.
 
-use axicore::accuracy::{run_to_tolerance, Refine};
+use axicore::accuracy::{run_to_tolerance, Caps, Refine};
 use axicore::case::parse_case;
 use axicore::pipeline::RunOptions;
 
@@ -20,7 +20,11 @@ fn check(name: &str, toml: &str, exact: f64, tolerance: f64) {
 fn check_mode(name: &str, toml: &str, exact: f64, tolerance: f64, refine: Refine) {
     let name = &format!("{name} ({refine:?})");
     let case = parse_case(toml, name).unwrap();
-    let c = run_to_tolerance(&case, &RunOptions::default(), tolerance, 400_000, refine).unwrap();
+    let caps = Caps {
+        max_nodes: 400_000,
+        max_seconds: None,
+    };
+    let c = run_to_tolerance(&case, &RunOptions::default(), tolerance, caps, refine).unwrap();
     assert!(
         c.history.reached,
         "{name}: tolerance not reached: {:?}",

@@ -173,13 +173,16 @@ fn refinement_levels_start_newton_from_the_coarser_field() {
     // Error control re-solves the case on a finer mesh; a saturating core's Newton iteration
     // starts from the coarser level's field interpolated to the new mesh. The converged field
     // does not depend on the start (strictly convex energy), the work does.
-    use axicore::accuracy::{run_to_tolerance, Refine};
+    use axicore::accuracy::{run_to_tolerance, Caps, Refine};
     let case = axicore::case::parse_case(&rod_case(3.0), "warm start").unwrap();
     let c = run_to_tolerance(
         &case,
         &RunOptions::default(),
         0.5,
-        1_000_000,
+        Caps {
+            max_nodes: 1_000_000,
+            max_seconds: None,
+        },
         Refine::Uniform,
     )
     .unwrap();

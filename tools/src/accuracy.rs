@@ -73,8 +73,10 @@ pub struct History {
     pub levels: Vec<Level>,
     /// Estimated relative error of the reported moment.
     pub estimated_relative_error: f64,
-    /// Whether the estimate met the tolerance (false: the node cap stopped refinement).
+    /// Whether the estimate met the tolerance.
     pub reached: bool,
+    /// What stopped the refinement.
+    pub stop: Stop,
 }
 
 /// The outcome of an error-controlled run.
@@ -86,15 +88,40 @@ pub struct Controlled {
     pub history: History,
 }
 
+/// Limits of an error-controlled run.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Caps {
+    /// Stop before a level whose nodes would exceed this (about twice the last level's).
+    pub max_nodes: usize,
+    /// Stop before a level expected to end after this many seconds of wall time (each level
+    /// is expected to take about 2.5× the previous one). Wall time makes the number of levels,
+    /// and so the result, depend on the machine: leave it unset for reproducible runs.
+    pub max_seconds: Option<f64>,
+}
+
+/// Why refinement stopped.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Stop {
+    /// The estimate met the tolerance.
+    Tolerance,
+    /// The node cap.
+    NodeCap,
+    /// The time cap.
+    TimeCap,
+}
+
 /// Refines `case` from its own mesh until the estimated relative dipole error is at most
-/// `tolerance`, or the next level would exceed `max_nodes` (about twice the last level's).
+/// `tolerance`, or a cap of `caps` stops it (reported in the history).
 pub fn run_to_tolerance(
     case: &Case,
     opts: &RunOptions,
     tolerance: f64,
-    max_nodes: usize,
+    caps: Caps,
     refine: Refine,
 ) -> Result<Controlled, RunError> {
+    let clock = std::time::Instant::now();
+    let max_nodes = caps.max_nodes;
     let mut levels: Vec<Level> = Vec::new();
     let mut refine_at: Vec<([f64; 2], f64)> = Vec::new();
     let mut previous: Option<FieldSnapshot> = None;
@@ -138,13 +165,28 @@ pub fn run_to_tolerance(
         });
         let reached = estimate.is_some_and(|e| e <= tolerance);
         let next_too_big = 2.2 * r.nodes as f64 > max_nodes as f64;
-        if reached || next_too_big {
+        let elapsed = clock.elapsed().as_secs_f64();
+        let last_level = r.timings_s.total();
+        let next_too_late = caps
+            .max_seconds
+            .is_some_and(|t| elapsed + 2.5 * last_level > t);
+        let stop = if reached {
+            Some(Stop::Tolerance)
+        } else if next_too_big {
+            Some(Stop::NodeCap)
+        } else if next_too_late {
+            Some(Stop::TimeCap)
+        } else {
+            None
+        };
+        if let Some(stop) = stop {
             return Ok(Controlled {
                 outcome,
                 history: History {
                     estimated_relative_error: estimate.unwrap_or(f64::INFINITY),
                     levels,
                     reached,
+                    stop,
                 },
             });
         }

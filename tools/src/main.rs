@@ -73,6 +73,9 @@ enum Command {
         /// Node cap for --tolerance (default 2000000).
         #[arg(long, value_name = "N", requires = "tolerance")]
         max_nodes: Option<usize>,
+        /// Wall-time cap for --tolerance, seconds (makes the result machine-dependent).
+        #[arg(long, value_name = "S", requires = "tolerance")]
+        max_seconds: Option<f64>,
         /// Refinement between --tolerance levels: "uniform" (default) or "adaptive".
         #[arg(
             long,
@@ -253,7 +256,11 @@ fn history_text(c: &History, tolerance: f64) -> String {
     let mut s = format!(
         "Error control: estimated relative error of the dipole {:.2e} ({} the tolerance {tolerance:.1e})\n",
         c.estimated_relative_error,
-        if c.reached { "within" } else { "NOT within — node cap reached;" }
+        match c.stop {
+            accuracy::Stop::Tolerance => "within",
+            accuracy::Stop::NodeCap => "NOT within — the node cap stopped refinement;",
+            accuracy::Stop::TimeCap => "NOT within — the time cap stopped refinement;",
+        }
     );
     s.push_str("  level      nodes   unknowns     dipole/A·m²   est. rel. error  order  Newton\n");
     for (k, l) in c.levels.iter().enumerate() {
@@ -405,9 +412,15 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             threads,
             tolerance,
             max_nodes,
+            max_seconds,
             refine,
             history_svg,
         } => {
+            if let Some(t) = max_seconds {
+                if !(t.is_finite() && t > 0.0) {
+                    return Err(input_error(format!("--max-seconds: {t} must be positive")));
+                }
+            }
             let refine = match refine.as_str() {
                 "uniform" => accuracy::Refine::Uniform,
                 "adaptive" => accuracy::Refine::Adaptive,
@@ -438,8 +451,11 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             let work = || -> Result<(axicore::pipeline::Outcome, Option<History>), RunError> {
                 match tolerance {
                     Some(t) => {
-                        let cap = max_nodes.unwrap_or(2_000_000);
-                        let c = accuracy::run_to_tolerance(&case, &opts, t, cap, refine)?;
+                        let caps = accuracy::Caps {
+                            max_nodes: max_nodes.unwrap_or(2_000_000),
+                            max_seconds,
+                        };
+                        let c = accuracy::run_to_tolerance(&case, &opts, t, caps, refine)?;
                         Ok((c.outcome, Some(c.history)))
                     }
                     None => Ok((run(&case, &opts)?, None)),
@@ -486,6 +502,7 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                     v["estimated_relative_error"] = serde_json::json!(c.estimated_relative_error);
                     v["tolerance"] = serde_json::json!(tolerance);
                     v["tolerance_reached"] = serde_json::json!(c.reached);
+                    v["refinement_stopped_by"] = serde_json::to_value(c.stop).unwrap_or_default();
                     v["convergence_history"] = serde_json::to_value(&c.levels).unwrap_or_default();
                 }
                 if timings {

@@ -216,3 +216,31 @@ fn ramp_writes_csv_and_reports_the_knee() {
     assert_eq!(code, 2, "{err}");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn tolerance_run_reports_its_estimate_history_and_why_it_stopped() {
+    // The README's JSON keys for error-controlled runs; the node cap is reported, not hidden.
+    let (code, out, err) = axicore(&["solve", "--tolerance", "1e-3", "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert!(v["estimated_relative_error"].as_f64().unwrap() <= 1e-3);
+    assert_eq!(v["tolerance_reached"], true);
+    assert_eq!(v["refinement_stopped_by"], "tolerance");
+    assert!(v["convergence_history"].as_array().unwrap().len() >= 2);
+    let (code, out, err) = axicore(&[
+        "solve",
+        "--tolerance",
+        "1e-9",
+        "--max-nodes",
+        "20000",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["tolerance_reached"], false);
+    assert_eq!(v["refinement_stopped_by"], "node_cap");
+    let (code, _, err) = axicore(&["solve", "--tolerance", "2"]);
+    assert_eq!(code, 2, "{err}");
+    let (code, _, err) = axicore(&["solve", "--tolerance", "1e-3", "--refine", "sideways"]);
+    assert_eq!(code, 2, "{err}");
+}
