@@ -107,3 +107,37 @@ fineness = 0.5
     let exact = 4.0 / 3.0 * std::f64::consts::PI * 1e-6 * m_of_h(h_in);
     check("saturating sphere", toml, exact, 1e-3);
 }
+
+#[test]
+fn sphere_and_spheroid_reach_the_tolerance_from_mu_r_10_to_100000() {
+    // Jackson §5.11 and Osborn (1945) with χ = μr − 1 at μr = 10, 1000, 100000, uniform
+    // refinement to an estimated 3e-4 from the default mesh: the true error must stay within
+    // 3× the tolerance and every estimate within the factor-3 band. (The 1e-4-with-1e-5 goal of
+    // the design needs second-order elements; first-order ones reach 3e-4 on ~40k unknowns.)
+    for mu_r in [10.0, 1000.0, 100000.0] {
+        let sphere = format!(
+            "[core]\nshape = \"sphere\"\ndiameter = \"20 mm\"\nmu_r = {mu_r}\n[background]\nb_axial = \"1 mT\"\n"
+        );
+        let exact = reference::sphere_dipole(0.010, mu_r, 1e-3 / reference::MU0);
+        check_mode(
+            &format!("sphere μr {mu_r}"),
+            &sphere,
+            exact,
+            3e-4,
+            Refine::Uniform,
+        );
+        let spheroid = format!(
+            "[core]\nshape = \"spheroid\"\nlength = \"100 mm\"\ndiameter = \"10 mm\"\nmu_r = {mu_r}\n[background]\nb_axial = \"1 mT\"\n"
+        );
+        let n = reference::prolate_demag_factor(10.0);
+        let volume = std::f64::consts::PI * 0.010 * 0.010 * 0.100 / 6.0;
+        let exact = reference::ellipsoid_dipole(volume, mu_r - 1.0, n, 1e-3 / reference::MU0);
+        check_mode(
+            &format!("spheroid μr {mu_r}"),
+            &spheroid,
+            exact,
+            3e-4,
+            Refine::Uniform,
+        );
+    }
+}
