@@ -87,3 +87,25 @@ fn low_current_slope_matches_a_small_current_solve() {
         r.low_current_slope_Am2_per_A
     );
 }
+
+#[test]
+fn ramp_follows_the_direction_of_the_case_current() {
+    // `--to` is a magnitude: a winding wound (or fed) the other way ramps to negative current
+    // and ends where a plain solve of the case ends (uniqueness, as above), here in a 50 µT
+    // background that the winding opposes.
+    let toml = format!(
+        "{}\n[background]\nb_axial = \"50 uT\"\n",
+        ROD.replace("current = \"1 A\"", "current = \"-1 A\"")
+    );
+    let case = parse_case(&toml, "reversed").unwrap();
+    let r = ramp(&case, 1.0, 2).unwrap();
+    let last = r.rows.last().unwrap();
+    assert_eq!(last.current_A, -1.0);
+    let plain = solve(&toml, &RunOptions::default()).report;
+    assert!(
+        rel(last.dipole_moment_Am2, plain.dipole_moment_Am2) < 1e-8,
+        "{} vs {}",
+        last.dipole_moment_Am2,
+        plain.dipole_moment_Am2
+    );
+}

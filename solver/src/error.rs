@@ -57,7 +57,8 @@ pub enum SolverError {
     },
     /// The nonlinear iteration did not reach its tolerances.
     #[error(
-        "Newton iteration did not converge: relative residual {residual:.3e} after {iterations} iterations ({reason})"
+        "Newton iteration did not converge: relative residual {residual:.3e} after {iterations} iterations ({reason}); residuals {}",
+        history.iter().map(|r| format!("{r:.1e}")).collect::<Vec<_>>().join(" → ")
     )]
     NotConverged {
         /// Newton iterations done.

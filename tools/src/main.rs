@@ -287,16 +287,34 @@ fn history_plot(c: &History) -> Result<String, axicore::plot::PlotError> {
         .iter()
         .filter_map(|l| l.estimated_relative_error.map(|e| (l.unknowns as f64, e)))
         .collect();
-    let chart = Chart {
-        title: "Estimated relative error of the dipole moment".into(),
-        x_label: "unknowns".into(),
-        y_label: "estimated relative error".into(),
-        x_scale: Scale::Log10,
-        y_scale: Scale::Log10,
-        series: vec![
-            Series::line("uniform refinement (fineness × √2 per level)", pts).with_markers(),
-        ],
-        marks: Vec::new(),
+    let chart = if pts.is_empty() {
+        // A cap stopped refinement after one level: no estimate yet, so show the moment.
+        Chart {
+            title: "Dipole moment per refinement level (no error estimate yet)".into(),
+            x_label: "unknowns".into(),
+            y_label: "dipole moment / A·m²".into(),
+            x_scale: Scale::Log10,
+            y_scale: Scale::Linear,
+            series: vec![Series::line(
+                "levels",
+                c.levels
+                    .iter()
+                    .map(|l| (l.unknowns as f64, l.dipole_moment_Am2))
+                    .collect(),
+            )
+            .with_markers()],
+            marks: Vec::new(),
+        }
+    } else {
+        Chart {
+            title: "Estimated relative error of the dipole moment".into(),
+            x_label: "unknowns".into(),
+            y_label: "estimated relative error".into(),
+            x_scale: Scale::Log10,
+            y_scale: Scale::Log10,
+            series: vec![Series::line("refinement levels", pts).with_markers()],
+            marks: Vec::new(),
+        }
     };
     render_svg(&chart, 800, 500)
 }

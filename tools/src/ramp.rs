@@ -65,7 +65,8 @@ pub struct RampResult {
     pub nodes: usize,
 }
 
-/// Solves the curve for `steps` equal current steps from 0 to `to` (A, first winding).
+/// Solves the curve for `steps` equal current steps from 0 to `to` (A, first winding; a
+/// magnitude: the sign of the case's current sets the direction).
 pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> {
     let i_case = case.windings.first().map_or(0.0, |w| w.current);
     let d = discretise(case)?;
@@ -107,7 +108,8 @@ pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> 
     let mut prev = Some(sol0);
     let mut first_sat = None;
     for k in 1..=steps {
-        let current = to * k as f64 / steps as f64;
+        // `to` is a magnitude; the ramp runs in the direction of the case's own current.
+        let current = i_case.signum() * to.abs() * k as f64 / steps as f64;
         let scale = current / i_case;
         let j = operating_point::currents(&model, case, scale);
         let (sol, newton) = operating_point::solve_field(
@@ -209,6 +211,13 @@ pub fn summary(r: &RampResult) -> String {
                 s,
                 "knee current             {i:.6e} A  (moment 10 % below the low-current line)"
             );
+            let step = r.rows.first().map_or(0.0, |p| p.current_A.abs());
+            if i.abs() < 5.0 * step {
+                let _ = writeln!(
+                    s,
+                    "                         (coarse: within five steps of zero; more --steps place it better)"
+                );
+            }
         }
         None => {
             let _ = writeln!(s, "knee current             not reached in this range");

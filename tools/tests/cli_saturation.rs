@@ -244,3 +244,23 @@ fn tolerance_run_reports_its_estimate_history_and_why_it_stopped() {
     let (code, _, err) = axicore(&["solve", "--tolerance", "1e-3", "--refine", "sideways"]);
     assert_eq!(code, 2, "{err}");
 }
+
+#[test]
+fn history_plot_is_written_even_when_a_cap_stops_after_one_level() {
+    let dir = scratch("history");
+    let svg = dir.join("h.svg");
+    let (code, out, err) = axicore(&[
+        "solve",
+        "--tolerance",
+        "1e-3",
+        "--max-nodes",
+        "10",
+        "--history-svg",
+        svg.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("node cap"), "{out}");
+    let text = std::fs::read_to_string(&svg).unwrap();
+    assert!(text.starts_with("<svg"), "{}", &text[..text.len().min(80)]);
+    let _ = std::fs::remove_dir_all(&dir);
+}

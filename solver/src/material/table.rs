@@ -67,7 +67,7 @@ pub struct BhTable {
 fn validate(points: &[[f64; 2]]) -> Result<(), SolverError> {
     if points.len() < 3 {
         let n = points.len();
-        let why = format!("a B–H table needs at least 3 points besides an added origin, got {n}");
+        let why = format!("a B–H table needs at least 3 points besides the origin (0, 0), got {n}");
         return Err(SolverError::BadMaterial(why));
     }
     for (i, &[h, b]) in points.iter().enumerate() {

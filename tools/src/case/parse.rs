@@ -288,11 +288,26 @@ fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
     })?;
     let kinds = ["frohlich-kennelly", "arctan", "knee", "brauer"];
     let required = |key: &str, dim| t.quantity(key, dim)?.ok_or_else(|| t.fault(key, "missing"));
+    // Each parameter is checked here so that a fault names its own key.
+    let saturation = || -> Result<f64, CaseError> {
+        let js = required("saturation", Dimension::FluxDensity)?;
+        if js <= 0.0 {
+            return Err(t.fault("saturation", &format!("{js} T must be positive")));
+        }
+        Ok(js)
+    };
+    let initial = || -> Result<f64, CaseError> {
+        let mu = required("initial_mu_r", Dimension::Dimensionless)?;
+        if mu <= 1.0 {
+            return Err(t.fault("initial_mu_r", &format!("{mu} must be above 1")));
+        }
+        Ok(mu)
+    };
     Ok(match kind.as_str() {
         "frohlich-kennelly" | "arctan" => {
             t.only(&["kind", "saturation", "initial_mu_r"])?;
-            let js = required("saturation", Dimension::FluxDensity)?;
-            let mu_ri = required("initial_mu_r", Dimension::Dimensionless)?;
+            let js = saturation()?;
+            let mu_ri = initial()?;
             if kind == "arctan" {
                 SaturationLaw::Arctan { js, mu_ri }
             } else {
@@ -301,20 +316,31 @@ fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
         }
         "knee" => {
             t.only(&["kind", "saturation", "initial_mu_r", "max_mu_r"])?;
-            SaturationLaw::Knee {
-                js: required("saturation", Dimension::FluxDensity)?,
-                mu_i: required("initial_mu_r", Dimension::Dimensionless)?,
-                mu_max: required("max_mu_r", Dimension::Dimensionless)?,
+            let js = saturation()?;
+            let mu_i = initial()?;
+            let mu_max = required("max_mu_r", Dimension::Dimensionless)?;
+            if mu_max < mu_i {
+                return Err(t.fault(
+                    "max_mu_r",
+                    &format!("{mu_max} must not be below initial_mu_r = {mu_i}"),
+                ));
             }
+            SaturationLaw::Knee { js, mu_i, mu_max }
         }
         "brauer" => {
             t.only(&["kind", "k1", "k2", "k3"])?;
-            let law = Brauer::new(
-                required("k1", Dimension::Dimensionless)?,
-                required("k2", Dimension::Dimensionless)?,
-                required("k3", Dimension::Dimensionless)?,
-            )
-            .map_err(|e| t.fault("k1", &e.to_string()))?;
+            let k1 = required("k1", Dimension::Dimensionless)?;
+            let k2 = required("k2", Dimension::Dimensionless)?;
+            let k3 = required("k3", Dimension::Dimensionless)?;
+            for (key, v) in [("k1", k1), ("k2", k2)] {
+                if v <= 0.0 {
+                    return Err(t.fault(key, &format!("{v} must be positive")));
+                }
+            }
+            if k3 <= 0.0 {
+                return Err(t.fault("k3", &format!("{k3} m/H must be positive")));
+            }
+            let law = Brauer::new(k1, k2, k3).map_err(|e| t.fault("k3", &e.to_string()))?;
             SaturationLaw::Brauer(law)
         }
         other => {
