@@ -10,6 +10,7 @@ use axicore::report::summary;
 use axicore::units::{self, Dimension};
 use axicore::{output, EXAMPLE_CASE, EXAMPLE_NAME};
 use axicore::{ramp, ramp_plot};
+use axicore_mesher::MeshError;
 use axicore_solver::SolverError;
 use clap::{Parser, Subcommand};
 
@@ -150,6 +151,12 @@ fn main() -> ExitCode {
     }
 }
 
+/// How a case is named in messages.
+fn case_name(case: &Option<PathBuf>) -> String {
+    case.as_ref()
+        .map_or(EXAMPLE_NAME.to_string(), |p| p.display().to_string())
+}
+
 fn load(case: &Option<PathBuf>) -> Result<Case, Failure> {
     match case {
         Some(p) => read_case_file(p).map_err(|e| input_error(e.to_string())),
@@ -194,7 +201,14 @@ fn parse_line(text: &str) -> Result<([f64; 2], [f64; 2], usize), Failure> {
 
 /// Exit code of a failed run: 2 for a probe outside the mesh (bad input), 3 for a nonlinear
 /// solve that did not converge, 1 otherwise.
-fn run_failure(e: RunError) -> Failure {
+fn run_failure(e: RunError, file: &str) -> Failure {
+    if let RunError::Mesh(MeshError::TooManyNodes { limit, .. }) = &e {
+        // Almost always a size given without its unit (plain numbers are metres) or a
+        // fineness far too high: an input fault, reported with the keys to check.
+        return input_error(format!(
+            "{file}: mesh.max_nodes: the mesh would need more than {limit} nodes; check the units of the lengths (plain numbers are metres) and mesh.fineness"
+        ));
+    }
     let code = match &e {
         RunError::Probe(_) => 2,
         RunError::Solve(SolverError::NotConverged { .. }) => 3,
@@ -321,6 +335,7 @@ fn history_plot(c: &History) -> Result<String, axicore::plot::PlotError> {
 
 fn ramp_command(
     case: &Case,
+    file: &str,
     to: &str,
     steps: usize,
     csv: Option<PathBuf>,
@@ -342,7 +357,7 @@ fn ramp_command(
                 .into(),
         ));
     }
-    let result = ramp::ramp(case, to, steps).map_err(run_failure)?;
+    let result = ramp::ramp(case, to, steps).map_err(|e| run_failure(e, file))?;
     let mut files = Vec::new();
     if let Some(path) = csv {
         files.push((path, ramp::csv(&result).into_bytes()));
@@ -383,7 +398,7 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             csv,
             svg,
             json,
-        } => ramp_command(&load(&case)?, &to, steps, csv, svg, json),
+        } => ramp_command(&load(&case)?, &case_name(&case), &to, steps, csv, svg, json),
         Command::Mesh { case, vtk } => {
             let case = load(&case)?;
             let d = discretise(&case).map_err(|e| Failure {
@@ -434,6 +449,7 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             refine,
             history_svg,
         } => {
+            let file = case_name(&case);
             if let Some(t) = max_seconds {
                 if !(t.is_finite() && t > 0.0) {
                     return Err(input_error(format!("--max-seconds: {t} must be positive")));
@@ -491,7 +507,7 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                     .install(work),
                 None => work(),
             }
-            .map_err(run_failure)?;
+            .map_err(|e| run_failure(e, &file))?;
             let (outcome, controlled) = outcome;
             let mut files = Vec::new();
             if let (Some(path), Some(c)) = (history_svg, &controlled) {

@@ -159,3 +159,17 @@ fn unknown_material_is_refused_with_a_hint() {
         &["core.material", "did you mean 'nickel-iron-80'"],
     );
 }
+
+#[test]
+fn a_length_without_its_unit_that_explodes_the_mesh_is_an_input_fault() {
+    // "100" is 100 m (plain numbers are SI): the mesh would blow through the node cap, which
+    // is reported as bad input naming the key to check, before any file is written.
+    expect_fault(
+        "unitless",
+        &format!(
+            "{}\n[mesh]\nmax_nodes = 20000\n",
+            GOOD.replace("length = \"60 mm\"", "length = \"100\"")
+        ),
+        &["mesh.max_nodes", "units"],
+    );
+}
