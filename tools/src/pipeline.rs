@@ -152,6 +152,18 @@ pub fn discretise_refined(
     Ok(Discretised { mesh, problem })
 }
 
+/// Whether `p` lies within two element sizes of the axis (size: longest edge of the element
+/// holding it).
+fn near_axis(model: &Model, locator: &Locator, p: [f64; 2]) -> bool {
+    locator.find(model.mesh(), p).is_some_and(|(e, _)| {
+        let c = model.mesh().corners(e);
+        let h = (0..3)
+            .map(|k| (c[k][0] - c[(k + 1) % 3][0]).hypot(c[k][1] - c[(k + 1) % 3][1]))
+            .fold(0.0, f64::max);
+        p[0] < 2.0 * h
+    })
+}
+
 /// Multipole modes for the open boundary: enough that the first mode left out decays below
 /// 1e-12 of the dipole's share, (r_sources/R0)^n < 1e-12, but no more than half the nodes on
 /// the arc can resolve.
@@ -273,11 +285,15 @@ pub fn run_from(
         .points
         .iter()
         .map(|&p| {
-            sol.at_point(&model, &locator, p)
+            let mut report = sol
+                .at_point(&model, &locator, p)
                 .map(PointReport::from)
-                .map_err(RunError::Probe)
+                .map_err(RunError::Probe)?;
+            report.low_accuracy_near_axis =
+                case.core.is_some() && report.region == AIR_TAG && near_axis(&model, &locator, p);
+            Ok(report)
         })
-        .collect::<Result<Vec<_>, _>>()?;
+        .collect::<Result<Vec<_>, RunError>>()?;
     let line_csv = match opts.line {
         Some((from, to, n)) => {
             let samples =

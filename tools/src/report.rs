@@ -156,6 +156,9 @@ pub struct PointReport {
     pub mu_r: f64,
     /// Region tag there.
     pub region: u32,
+    /// In air within two element sizes of the axis with a core present, where first-order
+    /// values are unreliable (README, "Point values").
+    pub low_accuracy_near_axis: bool,
 }
 
 impl From<PointField> for PointReport {
@@ -169,6 +172,7 @@ impl From<PointField> for PointReport {
             h_z_A_per_m: p.h[1],
             mu_r: p.mu_r,
             region: p.tag,
+            low_accuracy_near_axis: false,
         }
     }
 }
@@ -336,8 +340,19 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     for p in &r.points {
         let _ = writeln!(
             s,
-            "  at (r, z) = ({}, {}) m: B = ({:.6e}, {:.6e}) T, H = ({:.6e}, {:.6e}) A/m, μr = {}",
-            p.r_m, p.z_m, p.b_r_T, p.b_z_T, p.h_r_A_per_m, p.h_z_A_per_m, p.mu_r
+            "  at (r, z) = ({}, {}) m: B = ({:.6e}, {:.6e}) T, H = ({:.6e}, {:.6e}) A/m, μr = {:.6}{}",
+            p.r_m,
+            p.z_m,
+            p.b_r_T,
+            p.b_z_T,
+            p.h_r_A_per_m,
+            p.h_z_A_per_m,
+            p.mu_r,
+            if p.low_accuracy_near_axis {
+                "  [near the axis beside a core: low accuracy, see README]"
+            } else {
+                ""
+            }
         );
     }
     let _ = writeln!(s);
