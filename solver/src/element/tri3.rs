@@ -54,6 +54,8 @@ pub struct ElementGeometry {
     pub qp: [QuadPoint; 7],
     /// Per node: r_i for a flux node (basis N_i·r_i/r), 0 for a potential node (basis N_i).
     pub flux_radius: [f64; 3],
+    /// Blend length ℓ of flux nodes in m (0: pure flux basis; see `with_blend`).
+    pub blend: f64,
 }
 
 impl ElementGeometry {
@@ -64,6 +66,13 @@ impl ElementGeometry {
 
     /// Geometry with node i a flux node where `flux[i]` (see the module documentation).
     pub fn with_basis(p: [Point; 3], flux: [bool; 3]) -> Self {
+        Self::with_blend(p, flux, 0.0)
+    }
+
+    /// As [`Self::with_basis`], with flux nodes blended towards the plain basis near the axis:
+    /// φ_i = N_i·g_i(r), g_i = 1 + w(r)(r_i/r − 1), w = r²/(r² + ℓ²). A global function of r, so
+    /// the space stays conforming; w → 1 (flux basis) for r ≫ ℓ, w → 0 (plain) for r ≪ ℓ.
+    pub fn with_blend(p: [Point; 3], flux: [bool; 3], blend: f64) -> Self {
         let twice_area =
             (p[1][0] - p[0][0]) * (p[2][1] - p[0][1]) - (p[2][0] - p[0][0]) * (p[1][1] - p[0][1]);
         let mut dn_dr = [0.0; 3];
@@ -93,7 +102,22 @@ impl ElementGeometry {
             dn_dz,
             qp,
             flux_radius,
+            blend,
         }
+    }
+
+    /// g_i(r) and g_i'(r) + g_i(r)/r of flux node `i` (see [`Self::with_blend`]).
+    #[inline]
+    fn flux_factor(&self, ri: f64, r: f64) -> (f64, f64) {
+        if self.blend == 0.0 {
+            return (ri / r, 0.0);
+        }
+        let l2 = self.blend * self.blend;
+        let d = r * r + l2;
+        let w = r * r / d;
+        let dw = 2.0 * r * l2 / (d * d);
+        let g = 1.0 + w * (ri / r - 1.0);
+        (g, dw * (ri / r - 1.0) + (1.0 - w) / r)
     }
 
     /// Geometry of every triangle of `mesh`, in triangle order; `flux_node[v]` selects the
@@ -114,7 +138,7 @@ impl ElementGeometry {
     pub fn basis(&self, i: usize, n_i: f64, r: f64) -> f64 {
         let ri = self.flux_radius[i];
         if ri > 0.0 {
-            n_i * ri / r
+            n_i * self.flux_factor(ri, r).0
         } else {
             n_i
         }
@@ -125,8 +149,8 @@ impl ElementGeometry {
     pub fn curl_at(&self, i: usize, n_i: f64, r: f64) -> [f64; 2] {
         let ri = self.flux_radius[i];
         if ri > 0.0 {
-            let w = ri / r;
-            [-w * self.dn_dz[i], w * self.dn_dr[i]]
+            let (g, h) = self.flux_factor(ri, r);
+            [-g * self.dn_dz[i], g * self.dn_dr[i] + n_i * h]
         } else {
             [-self.dn_dz[i], self.dn_dr[i] + n_i / r]
         }
