@@ -63,11 +63,7 @@ impl Model {
             .flat_map(|e| mesh.corners(e))
             .map(|p| p[0])
             .fold(0.0, f64::max);
-        let blend_factor: f64 = std::env::var("AXICORE_BLEND")
-            .ok()
-            .and_then(|v| v.parse().ok())
-            .unwrap_or(BLEND_FACTOR);
-        let blend = blend_factor * r_mag;
+        let blend = BLEND_FACTOR * r_mag;
         let geom: Vec<ElementGeometry> = (0..mesh.triangles.len())
             .map(|e| {
                 let tri = mesh.triangles[e];
