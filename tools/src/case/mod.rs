@@ -6,6 +6,7 @@
 
 mod materials;
 mod parse;
+mod section;
 mod validate;
 
 pub use materials::{builtin_materials, find as find_material, BuiltinMaterial};
