@@ -21,6 +21,8 @@ Examples:
   axicore solve my.toml --vtk field.vtu           also write a VTK map of the field
   axicore solve my.toml --line 0,-60mm:0,60mm:121 --csv axis.csv
   axicore solve my.toml --point 0,0 --point 5mm,36mm
+  axicore solve my.toml --tolerance 1e-3 --history-svg err.svg
+                                                  refine until the dipole error estimate ≤ 1e-3
   axicore mesh my.toml --vtk mesh.vtu             mesh only, print statistics
   axicore ramp --to 300mA --steps 30 --csv m.csv --svg m.svg
                                                   moment–current curve of the example
