@@ -19,7 +19,7 @@ Examples:
   axicore solve                                   solve the built-in torquer-rod example
   axicore solve cases/torquer-rod/case.toml --json
   axicore solve my.toml --vtk field.vtu           also write a VTK map of the field
-  axicore solve my.toml --line 0,-60mm:0,60mm:121 --csv axis.csv
+  axicore solve my.toml --line 2mm,-60mm:2mm,60mm:121 --csv line.csv
   axicore solve my.toml --point 0,0 --point 5mm,36mm
   axicore solve my.toml --tolerance 1e-3 --history-svg err.svg
                                                   refine until the dipole error estimate ≤ 1e-3
