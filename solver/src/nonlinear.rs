@@ -81,6 +81,19 @@ impl Model {
         start: Option<&Solution>,
         settings: &NewtonSettings,
     ) -> Result<(Solution, NewtonReport), SolverError> {
+        self.solve_nonlinear_with_tangent(exc, start, settings)
+            .map(|(s, r, _)| (s, r))
+    }
+
+    /// As [`Self::solve_nonlinear`], also returning the last factorised tangent (at the last
+    /// iterate but one; the final correction is below the update tolerance, so it serves as
+    /// the tangent at the solution to that accuracy), or None when no iteration was needed.
+    pub fn solve_nonlinear_with_tangent(
+        &self,
+        exc: Excitation<'_>,
+        start: Option<&Solution>,
+        settings: &NewtonSettings,
+    ) -> Result<(Solution, NewtonReport, Option<SpdFactor<'_>>), SolverError> {
         let mut a = match start {
             Some(s) => self.with_fixed(&s.a, exc.a_fixed),
             None => self.initial_guess(exc)?,
@@ -97,6 +110,7 @@ impl Model {
                     b0: exc.b0,
                 },
                 report,
+                None,
             ));
         }
         let mut r = self.residual(&a, exc);
@@ -135,7 +149,7 @@ impl Model {
                 report.iterations += 1;
                 report.update_history.push(full_step);
                 report.step_lengths.push(1.0);
-                return Ok((Solution { a, b0: exc.b0 }, report));
+                return Ok((Solution { a, b0: exc.b0 }, report, Some(factor)));
             }
             let (alpha, r_new, t_new) = self.line_search(&a, &delta, &r, exc);
             let mut step2 = 0.0;

@@ -3,6 +3,7 @@
 
 use axicore_solver::locate::Locator;
 use axicore_solver::post::{dipole, flux, peak, saturation};
+use axicore_solver::cholesky::SpdFactor;
 use axicore_solver::{
     Excitation, LinearOperator, Model, NewtonReport, NewtonSettings, Solution, SolverError,
 };
@@ -23,17 +24,30 @@ pub fn solve_field(
     start: Option<&Solution>,
     settings: &NewtonSettings,
 ) -> Result<(Solution, Option<NewtonReport>), SolverError> {
+    solve_field_with_tangent(model, op, currents, b0, start, settings).map(|(s, r, _)| (s, r))
+}
+
+/// As [`solve_field`], also returning Newton's last factorised tangent (None when linear or
+/// when no iteration was needed), to serve the small-signal figures without refactorising.
+pub fn solve_field_with_tangent<'m>(
+    model: &'m Model,
+    op: Option<&LinearOperator<'_>>,
+    currents: &[f64],
+    b0: f64,
+    start: Option<&Solution>,
+    settings: &NewtonSettings,
+) -> Result<(Solution, Option<NewtonReport>, Option<SpdFactor<'m>>), SolverError> {
     let fixed = model.fixed_values();
     match op {
-        Some(op) => Ok((op.solve(currents, &fixed, b0), None)),
+        Some(op) => Ok((op.solve(currents, &fixed, b0), None, None)),
         None => {
             let exc = Excitation {
                 currents,
                 a_fixed: &fixed,
                 b0,
             };
-            let (sol, rep) = model.solve_nonlinear(exc, start, settings)?;
-            Ok((sol, Some(rep)))
+            let (sol, rep, tangent) = model.solve_nonlinear_with_tangent(exc, start, settings)?;
+            Ok((sol, Some(rep), tangent))
         }
     }
 }
@@ -93,6 +107,7 @@ pub struct Figures {
 pub fn figures(
     model: &Model,
     op: Option<&LinearOperator<'_>>,
+    tangent: Option<&SpdFactor<'_>>,
     case: &Case,
     locator: &Locator,
     sol: &Solution,
@@ -106,9 +121,14 @@ pub fn figures(
 
     // The linear response to 1 A in each winding: the inductances, and for a linear model the
     // moment of the windings alone by superposition.
-    let tangent = match op {
-        Some(_) => None,
-        None => Some(model.tangent_at(sol, &model.fixed_values())?),
+    let own;
+    let tangent = match (op, tangent) {
+        (Some(_), _) => None,
+        (None, Some(t)) => Some(t),
+        (None, None) => {
+            own = model.tangent_at(sol, &model.fixed_values())?;
+            Some(&own)
+        }
     };
     let responses: Vec<(Vec<f64>, Solution)> = (0..case.windings.len())
         .map(|k| {

@@ -212,7 +212,7 @@ pub fn run_from(
         }),
         _ => None,
     };
-    let (sol, newton) = operating_point::solve_field(
+    let (sol, newton, tangent) = operating_point::solve_field_with_tangent(
         &model,
         op.as_ref(),
         &j_full,
@@ -224,7 +224,16 @@ pub fn run_from(
 
     let t3 = Instant::now();
     let locator = Locator::new(model.mesh());
-    let fig = operating_point::figures(&model, op.as_ref(), case, &locator, &sol, &j_full, 1.0)?;
+    let fig = operating_point::figures(
+        &model,
+        op.as_ref(),
+        tangent.as_ref(),
+        case,
+        &locator,
+        &sol,
+        &j_full,
+        1.0,
+    )?;
     let total = fig.total;
     let ro = case.effective_air_radius();
     let rb = geometry::ball_radius(case);
@@ -372,6 +381,7 @@ pub fn run_from(
             post: t_post,
         },
     };
+    drop(tangent);
     drop(op);
     let field = opts.keep_field.then(|| FieldSnapshot {
         model,

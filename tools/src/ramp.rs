@@ -112,7 +112,7 @@ pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> 
         let current = i_case.signum() * to.abs() * k as f64 / steps as f64;
         let scale = current / i_case;
         let j = operating_point::currents(&model, case, scale);
-        let (sol, newton) = operating_point::solve_field(
+        let (sol, newton, tangent) = operating_point::solve_field_with_tangent(
             &model,
             op.as_ref(),
             &j,
@@ -120,7 +120,16 @@ pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> 
             prev.as_ref(),
             &case.newton,
         )?;
-        let fig = operating_point::figures(&model, op.as_ref(), case, &locator, &sol, &j, scale)?;
+        let fig = operating_point::figures(
+            &model,
+            op.as_ref(),
+            tangent.as_ref(),
+            case,
+            &locator,
+            &sol,
+            &j,
+            scale,
+        )?;
         if first_sat.is_none() && fig.saturated_fraction.is_some_and(|f| f > 0.0) {
             first_sat = fig.peak.map(|p| (current, p.at));
         }
