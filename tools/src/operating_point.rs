@@ -1,9 +1,9 @@
 //! One operating point of a case: the field solve (linear or Newton) and the figures a
 //! designer reads off it. Shared by `solve` (one point) and `ramp` (a sequence of points).
 
+use axicore_solver::cholesky::SpdFactor;
 use axicore_solver::locate::Locator;
 use axicore_solver::post::{dipole, flux, peak, saturation};
-use axicore_solver::cholesky::SpdFactor;
 use axicore_solver::{
     Excitation, LinearOperator, Model, NewtonReport, NewtonSettings, Solution, SolverError,
 };
