@@ -9,33 +9,7 @@
 mod common;
 
 use axicore::pipeline::RunOptions;
-use common::{rel, solve};
-
-/// A rod in a shorter winding (the built-in example's geometry) with the arctangent law
-/// Js = 1.5 T, μri = 1000 (references.md §6), at winding current `amps`; coarse mesh.
-fn rod_case(amps: f64) -> String {
-    format!(
-        r#"
-title = "rod, arctangent law"
-[core]
-shape = "rod"
-length = "70 mm"
-diameter = "8 mm"
-[core.law]
-kind = "arctan"
-saturation = "1.5 T"
-initial_mu_r = 1000
-[[winding]]
-turns = 1200
-current = "{amps} A"
-inner_radius = "4.2 mm"
-outer_radius = "6.0 mm"
-length = "60 mm"
-[mesh]
-fineness = 0.5
-"#
-    )
-}
+use common::{arctan_rod, rel, solve};
 
 /// Asserts that some late iteration contracts quadratically: r_next ≤ 100·r², with r below
 /// 1e-2 and r_next above the rounding floor (1e-12). A first guess that is already at the
@@ -107,7 +81,7 @@ fn newton_converges_within_15_iterations_up_to_100_times_the_knee_on_the_rod() {
     // The knee of this rod is near 1.5 A (moment 10 % below its low-current line, measured
     // with `axicore ramp`); 1×, 2×, 10× and 100× of it from the linear first guess.
     for amps in [1.5, 3.0, 15.0, 150.0] {
-        let out = solve(&rod_case(amps), &RunOptions::default());
+        let out = solve(&arctan_rod(amps), &RunOptions::default());
         let r = &out.report;
         assert!(
             r.newton_iterations <= 15,
@@ -154,7 +128,7 @@ fn deeply_saturated_rod_in_a_longer_winding_carries_ms_times_volume() {
     // rod, the arctangent law's J is within 2e-4 of Js there (references.md §6), so the core
     // moment → Ms·V (tolerance 1 %). (In a winding shorter than the rod the field fans out at
     // the rod's ends, tilting M, and the moment stays about 1.1 % below Ms·V: physics.)
-    let case = rod_case(150.0).replace(r#"length = "60 mm""#, r#"length = "100 mm""#);
+    let case = arctan_rod(150.0).replace(r#"length = "60 mm""#, r#"length = "100 mm""#);
     let case = case.replace("turns = 1200", "turns = 2000");
     let out = solve(&case, &RunOptions::default());
     let ms_v = 1.5 / reference::MU0 * std::f64::consts::PI * 0.004f64.powi(2) * 0.070;
@@ -174,7 +148,7 @@ fn refinement_levels_start_newton_from_the_coarser_field() {
     // starts from the coarser level's field interpolated to the new mesh. The converged field
     // does not depend on the start (strictly convex energy), the work does.
     use axicore::accuracy::{run_to_tolerance, Caps, Refine};
-    let case = axicore::case::parse_case(&rod_case(3.0), "warm start").unwrap();
+    let case = axicore::case::parse_case(&arctan_rod(3.0), "warm start").unwrap();
     let c = run_to_tolerance(
         &case,
         &RunOptions::default(),
@@ -188,7 +162,7 @@ fn refinement_levels_start_newton_from_the_coarser_field() {
     .unwrap();
     let levels = &c.history.levels;
     assert_eq!(levels.len(), 2, "{levels:?}");
-    let fine = rod_case(3.0).replace("fineness = 0.5", "fineness = 0.7071067811865476");
+    let fine = arctan_rod(3.0).replace("fineness = 0.5", "fineness = 0.7071067811865476");
     let cold = solve(&fine, &RunOptions::default()).report;
     assert_eq!(cold.nodes, levels[1].nodes, "same mesh expected");
     assert!(

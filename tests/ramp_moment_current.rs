@@ -11,31 +11,11 @@ mod common;
 use axicore::case::parse_case;
 use axicore::pipeline::RunOptions;
 use axicore::ramp::{csv, ramp};
-use common::{rel, solve};
-
-const ROD: &str = r#"
-title = "rod, arctangent law"
-[core]
-shape = "rod"
-length = "70 mm"
-diameter = "8 mm"
-[core.law]
-kind = "arctan"
-saturation = "1.5 T"
-initial_mu_r = 1000
-[[winding]]
-turns = 1200
-current = "1 A"
-inner_radius = "4.2 mm"
-outer_radius = "6.0 mm"
-length = "60 mm"
-[mesh]
-fineness = 0.5
-"#;
+use common::{arctan_rod, rel, solve};
 
 #[test]
 fn ramp_moment_is_monotone_and_continuation_matches_a_cold_start() {
-    let case = parse_case(ROD, "ramp test").unwrap();
+    let case = parse_case(&arctan_rod(1.0), "ramp test").unwrap();
     let r = ramp(&case, 6.0, 8).unwrap();
     assert_eq!(r.rows.len(), 8);
     for w in r.rows.windows(2) {
@@ -48,10 +28,7 @@ fn ramp_moment_is_monotone_and_continuation_matches_a_cold_start() {
         assert!(w[1].incremental_inductance_H <= w[0].incremental_inductance_H * (1.0 + 1e-6));
     }
     // The last step solved by continuation against a cold start at 6 A.
-    let cold = solve(
-        &ROD.replace("current = \"1 A\"", "current = \"6 A\""),
-        &RunOptions::default(),
-    );
+    let cold = solve(&arctan_rod(6.0), &RunOptions::default());
     let last = r.rows.last().unwrap();
     assert!(
         rel(last.dipole_moment_Am2, cold.report.dipole_moment_Am2) < 1e-8,
@@ -78,7 +55,7 @@ fn ramp_moment_is_monotone_and_continuation_matches_a_cold_start() {
 fn low_current_slope_matches_a_small_current_solve() {
     // The small-signal slope at zero current (from the tangent) against m(I)/I at 1 mA, where
     // the core is far below its knee: equal to the nonlinearity of the first millitesla.
-    let case = parse_case(ROD, "ramp test").unwrap();
+    let case = parse_case(&arctan_rod(1.0), "ramp test").unwrap();
     let r = ramp(&case, 1e-3, 1).unwrap();
     let m_per_a = r.rows[0].dipole_moment_Am2 / 1e-3;
     assert!(
@@ -93,10 +70,7 @@ fn ramp_follows_the_direction_of_the_case_current() {
     // `--to` is a magnitude: a winding wound (or fed) the other way ramps to negative current
     // and ends where a plain solve of the case ends (uniqueness, as above), here in a 50 µT
     // background that the winding opposes.
-    let toml = format!(
-        "{}\n[background]\nb_axial = \"50 uT\"\n",
-        ROD.replace("current = \"1 A\"", "current = \"-1 A\"")
-    );
+    let toml = format!("{}\n[background]\nb_axial = \"50 uT\"\n", arctan_rod(-1.0));
     let case = parse_case(&toml, "reversed").unwrap();
     let r = ramp(&case, 1.0, 2).unwrap();
     let last = r.rows.last().unwrap();

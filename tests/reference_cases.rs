@@ -1,8 +1,9 @@
 //! Regression over the reference geometries in `cases/`: every case must reproduce its
 //! `baseline.json` (written by `tools/update_baselines.sh`).
 //!
-//! Not an outside check — the baselines are this program's own earlier results; the outside
-//! checks of the same physics are the validation tests named in the README. What this guards
+//! Source: none outside the project — the baselines are this program's own earlier results
+//! (golden-file regression testing, common practice); the outside checks of the same physics
+//! are the validation tests named in the README. What this guards
 //! is that a change elsewhere does not move any reported number without anyone noticing: runs
 //! are deterministic, so the numbers must agree to rounding (1e-12 relative) and the mesh sizes
 //! exactly. A deliberate change of the numerics regenerates the baselines in the same commit.

@@ -58,6 +58,20 @@ impl FeMesh {
         ]
     }
 
+    /// Centroid of triangle `t`.
+    pub fn centroid(&self, t: usize) -> Point {
+        let [a, b, c] = self.corners(t);
+        [(a[0] + b[0] + c[0]) / 3.0, (a[1] + b[1] + c[1]) / 3.0]
+    }
+
+    /// Longest edge of triangle `t` in m.
+    pub fn longest_edge(&self, t: usize) -> f64 {
+        let p = self.corners(t);
+        (0..3)
+            .map(|k| (p[k][0] - p[(k + 1) % 3][0]).hypot(p[k][1] - p[(k + 1) % 3][1]))
+            .fold(0.0, f64::max)
+    }
+
     /// Largest region tag plus one (length of a per-tag table).
     pub fn tag_count(&self) -> usize {
         self.tags.iter().map(|&t| t as usize + 1).max().unwrap_or(0)

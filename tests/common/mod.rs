@@ -27,3 +27,30 @@ inner_radius = "10 mm"
 outer_radius = "20 mm"
 length = "100 mm"
 "#;
+
+/// The built-in example's rod and winding geometry with the arctangent law Js = 1.5 T,
+/// μri = 1000 (references.md §6; sources cited in the tests that use it), at winding current
+/// `amps`, on a coarse mesh (fineness 0.5).
+pub fn arctan_rod(amps: f64) -> String {
+    format!(
+        r#"
+title = "rod, arctangent law"
+[core]
+shape = "rod"
+length = "70 mm"
+diameter = "8 mm"
+[core.law]
+kind = "arctan"
+saturation = "1.5 T"
+initial_mu_r = 1000
+[[winding]]
+turns = 1200
+current = "{amps} A"
+inner_radius = "4.2 mm"
+outer_radius = "6.0 mm"
+length = "60 mm"
+[mesh]
+fineness = 0.5
+"#
+    )
+}

@@ -155,13 +155,9 @@ pub fn discretise_refined(
 /// Whether `p` lies within two element sizes of the axis (size: longest edge of the element
 /// holding it).
 fn near_axis(model: &Model, locator: &Locator, p: [f64; 2]) -> bool {
-    locator.find(model.mesh(), p).is_some_and(|(e, _)| {
-        let c = model.mesh().corners(e);
-        let h = (0..3)
-            .map(|k| (c[k][0] - c[(k + 1) % 3][0]).hypot(c[k][1] - c[(k + 1) % 3][1]))
-            .fold(0.0, f64::max);
-        p[0] < 2.0 * h
-    })
+    locator
+        .find(model.mesh(), p)
+        .is_some_and(|(e, _)| p[0] < 2.0 * model.mesh().longest_edge(e))
 }
 
 /// Multipole modes for the open boundary: enough that the first mode left out decays below

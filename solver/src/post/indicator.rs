@@ -43,17 +43,7 @@ pub fn energy_indicators(
     (0..mesh.triangles.len())
         .into_par_iter()
         .map(|e| {
-            let p = mesh.corners(e);
-            let centroid = [
-                (p[0][0] + p[1][0] + p[2][0]) / 3.0,
-                (p[0][1] + p[1][1] + p[2][1]) / 3.0,
-            ];
-            let size = (0..3)
-                .map(|k| {
-                    let (a, b) = (p[k], p[(k + 1) % 3]);
-                    (a[0] - b[0]).hypot(a[1] - b[1])
-                })
-                .fold(0.0, f64::max);
+            let (centroid, size) = (mesh.centroid(e), mesh.longest_edge(e));
             let bh = sol.b_mean(model, e);
             let weight = match locator.patches().b_at(model, sol, e, centroid) {
                 Some(br) => {
@@ -70,22 +60,6 @@ pub fn energy_indicators(
             }
         })
         .collect()
-}
-
-/// Centroid and longest edge of element `e`.
-fn centroid_and_size(model: &Model, e: usize) -> (Point, f64) {
-    let p = model.mesh().corners(e);
-    let c = [
-        (p[0][0] + p[1][0] + p[2][0]) / 3.0,
-        (p[0][1] + p[1][1] + p[2][1]) / 3.0,
-    ];
-    let size = (0..3)
-        .map(|k| {
-            let (a, b) = (p[k], p[(k + 1) % 3]);
-            (a[0] - b[0]).hypot(a[1] - b[1])
-        })
-        .fold(0.0, f64::max);
-    (c, size)
 }
 
 /// The dual solution of the dipole functional at `sol` (reaction coefficients, no background),
@@ -146,7 +120,7 @@ pub fn goal_indicators(
     Ok((0..model.mesh().triangles.len())
         .into_par_iter()
         .map(|e| {
-            let (centroid, size) = centroid_and_size(model, e);
+            let (centroid, size) = (model.mesh().centroid(e), model.mesh().longest_edge(e));
             let patches = locator.patches();
             let weight = match (
                 patches.b_at(model, sol, e, centroid),
