@@ -34,7 +34,7 @@ fn dual_of_the_moment_functional_reproduces_the_core_moment_from_the_load() {
         .expect("a magnetic core");
     let zero = vec![0.0; model.mesh().nodes.len()];
     let f = assembly::rhs(
-        &model.mesh().triangles,
+        model.mesh(),
         model.geometry(),
         model.dofs(),
         &j,

@@ -61,6 +61,33 @@ fn legendre_p1(x: f64, n_max: usize, out: &mut Vec<f64>) {
     }
 }
 
+/// The point at barycentric `l` on the edge from local corner `la` to `lb` of element `g`,
+/// and its derivative along the edge parameter t (l_la = 1 − t, l_lb = t).
+fn edge_point(g: &ElementGeometry, l: [f64; 3], la: usize, lb: usize) -> ([f64; 2], [f64; 2]) {
+    let x = g.position(l);
+    let mut dl = [0.0; 3];
+    dl[la] = -1.0;
+    dl[lb] = 1.0;
+    if g.is_quadratic() {
+        let grads = crate::element::tri6::reference_gradients(l);
+        let mut d = [0.0; 2];
+        for (p, gr) in g.points.iter().zip(grads) {
+            let dn = gr[0] * dl[1] + gr[1] * dl[2];
+            d[0] += p[0] * dn;
+            d[1] += p[1] * dn;
+        }
+        (x, d)
+    } else {
+        let p = &g.points;
+        let mut d = [0.0; 2];
+        for k in 0..3 {
+            d[0] += p[k][0] * dl[k];
+            d[1] += p[k][1] * dl[k];
+        }
+        (x, d)
+    }
+}
+
 /// Builds D for `open` on `mesh`, whose element geometries are `geom` (their basis decides
 /// the trace of each nodal function on the arc).
 pub fn exterior_operator(
@@ -112,25 +139,33 @@ pub fn exterior_operator(
         (0.960_289_856_497_536_3, 0.101_228_536_290_376_3),
     ];
     let mut p = Vec::with_capacity(nm + 1);
-    for ([u, v], e, [la, lb]) in &edges {
-        let pu = mesh.nodes[*u as usize];
-        let pv = mesh.nodes[*v as usize];
+    for (_, e, [la, lb]) in &edges {
+        let g = &geom[*e];
+        let nodes = mesh.element_nodes(*e);
         for (x, wt) in GL.iter().flat_map(|&(x, w)| [(x, w), (-x, w)]) {
             let t = 0.5 * (1.0 + x);
-            let q = [pu[0] + t * (pv[0] - pu[0]), pu[1] + t * (pv[1] - pu[1])];
+            let mut l = [0.0; 3];
+            l[*la] = 1.0 - t;
+            l[*lb] = t;
+            let (q, dq) = edge_point(g, l, *la, *lb);
             let th = q[0].atan2(q[1]);
-            // dθ/dt by the chord: the arc polygon is fine, θ is smooth along it.
+            // dθ/dt along the (possibly curved) edge.
             let r2 = q[0] * q[0] + q[1] * q[1];
-            let dq = [pv[0] - pu[0], pv[1] - pu[1]];
             let dth = (q[1] * dq[0] - q[0] * dq[1]) / r2;
             legendre_p1(th.cos(), nm, &mut p);
-            let g = &geom[*e];
-            let phi_u = g.basis(*la, 1.0 - t, q[0]);
-            let phi_v = g.basis(*lb, t, q[0]);
             let common = 0.5 * wt * th.sin() * dth;
-            for n in 1..=nm {
-                w[n][index[*u as usize]] += common * p[n] * phi_u;
-                w[n][index[*v as usize]] += common * p[n] * phi_v;
+            for (i, &v) in nodes.iter().enumerate() {
+                let k = index[v as usize];
+                if k == usize::MAX {
+                    continue;
+                }
+                let phi = g.basis(i, l, q[0]);
+                if phi == 0.0 {
+                    continue;
+                }
+                for n in 1..=nm {
+                    w[n][k] += common * p[n] * phi;
+                }
             }
         }
     }
@@ -195,6 +230,7 @@ mod tests {
                 nodes,
                 triangles,
                 tags,
+                mid: Vec::new(),
             },
             outer,
         )

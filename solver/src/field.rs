@@ -1,6 +1,6 @@
 //! The solved field: nodal vector potential, and B, H and μr anywhere in the mesh.
 
-use crate::element::ElementGeometry;
+use crate::element::{ElementGeometry, Local, MAX_NODES};
 use crate::locate::Locator;
 use crate::mesh::Point;
 use crate::solve::Model;
@@ -34,10 +34,14 @@ pub struct PointField {
 }
 
 impl Solution {
-    /// The three nodal coefficients (reaction part) of element `e`.
+    /// The nodal coefficients (reaction part) of element `e` (3 or 6; the rest zero).
     #[inline]
-    pub fn element_values(&self, model: &Model, e: usize) -> [f64; 3] {
-        model.mesh().triangles[e].map(|v| self.a[v as usize])
+    pub fn element_values(&self, model: &Model, e: usize) -> Local {
+        let mut v = [0.0; MAX_NODES];
+        for (k, &n) in model.mesh().element_nodes(e).iter().enumerate() {
+            v[k] = self.a[n as usize];
+        }
+        v
     }
 
     /// Total A_φ at every node, Wb/m.
@@ -54,7 +58,7 @@ impl Solution {
     /// Total B at quadrature point `q` of element `e`, T.
     #[inline]
     pub fn b_q(&self, model: &Model, e: usize, q: &crate::element::QuadPoint) -> [f64; 2] {
-        let b = model.geometry()[e].b_at(self.element_values(model, e), q);
+        let b = model.geometry()[e].b_at(&self.element_values(model, e), q);
         [b[0], b[1] + self.b0]
     }
 
@@ -62,12 +66,12 @@ impl Solution {
     #[inline]
     pub fn a_q(&self, model: &Model, e: usize, q: &crate::element::QuadPoint) -> f64 {
         let g = &model.geometry()[e];
-        g.a_at(self.element_values(model, e), q.n, q.r) + 0.5 * self.b0 * q.r
+        g.a_at(&self.element_values(model, e), q.n, q.r) + 0.5 * self.b0 * q.r
     }
 
     /// Volume-mean total B of element `e`, T.
     pub fn b_mean(&self, model: &Model, e: usize) -> [f64; 2] {
-        let b = model.geometry()[e].b_mean(self.element_values(model, e));
+        let b = model.geometry()[e].b_mean(&self.element_values(model, e));
         [b[0], b[1] + self.b0]
     }
 
@@ -82,22 +86,16 @@ impl Solution {
             .find(model.mesh(), p)
             .ok_or(SolverError::OutsideMesh { r: p[0], z: p[1] })?;
         let g: &ElementGeometry = &model.geometry()[e];
+        let l = g.invert(p, l);
         let av = self.element_values(model, e);
         if p[0] > 0.0 {
-            let a = g.a_at(av, l, p[0]);
-            let mut b = [0.0; 2];
-            for i in 0..3 {
-                let c = g.curl_at(i, l[i], p[0]);
-                b[0] += av[i] * c[0];
-                b[1] += av[i] * c[1];
-            }
+            let a = g.a_at(&av, l, p[0]);
+            let b = g.b_at_bary(&av, l, p[0]);
             return Ok((e, a + 0.5 * self.b0 * p[0], [b[0], b[1] + self.b0]));
         }
         // On the axis (elements there use the plain basis) A/r → ∂A/∂r, so B_z = 2 ∂A/∂r.
-        let da_dr: f64 = (0..3).map(|i| av[i] * g.dn_dr[i]).sum();
-        let da_dz: f64 = (0..3).map(|i| av[i] * g.dn_dz[i]).sum();
-        let (a, a_over_r) = (0.0, da_dr);
-        Ok((e, a, [-da_dz, da_dr + a_over_r + self.b0]))
+        let [da_dr, da_dz] = g.plain_gradient(&av, l);
+        Ok((e, 0.0, [-da_dz, 2.0 * da_dr + self.b0]))
     }
 
     /// Recovered B at point `p` (patch fit, see [`crate::recover`]), falling back to the

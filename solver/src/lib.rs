@@ -25,6 +25,7 @@
 //! - [`material`]: linear and saturating laws H(|B|).
 //! - [`dofs`], [`pattern`], [`weak_form`], [`assembly`]: from mesh to sparse system.
 //! - [`cholesky`]: the sparse direct solve (faer).
+//! - [`quadratic`]: second-order meshes (mid-edge nodes on curved outlines).
 //! - [`problem`], [`solve`]: what to solve and the linear solve.
 //! - [`nonlinear`]: Newton's method for saturating materials.
 //! - [`exterior`]: the exact open boundary (exterior multipole energy).
@@ -33,6 +34,8 @@
 //! - [`export`]: VTK output.
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
+// Element kernels index local nodes a, b as the formulas do; iterator chains would hide them.
+#![allow(clippy::needless_range_loop)]
 
 pub mod assembly;
 pub mod cholesky;
@@ -49,6 +52,7 @@ pub mod nonlinear;
 pub mod pattern;
 pub mod post;
 pub mod problem;
+pub mod quadratic;
 pub mod quadrature;
 pub mod recover;
 pub mod solve;

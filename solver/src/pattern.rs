@@ -5,6 +5,7 @@
 //! its local (a, b) couplings so assembly is a plain scatter.
 
 use crate::dofs::DofMap;
+use crate::mesh::FeMesh;
 
 /// No slot: the coupling involves a fixed node or lies in the upper triangle.
 pub const NO_SLOT: u32 = u32::MAX;
@@ -18,20 +19,32 @@ pub struct Pattern {
     pub col_ptr: Vec<usize>,
     /// Row indices, sorted within each column.
     pub row_idx: Vec<usize>,
-    /// For each element, slot of local coupling (a, b) at index 3a + b, or [`NO_SLOT`].
-    pub slots: Vec<[u32; 9]>,
+    /// Nodes per element (3 or 6).
+    pub nodes_per_element: usize,
+    /// For element e, slot of local coupling (a, b) at index (e·n + a)·n + b (n nodes per
+    /// element), or [`NO_SLOT`].
+    pub slots: Vec<u32>,
 }
 
 impl Pattern {
-    /// Builds the pattern of the couplings of `triangles` among the free unknowns of `dofs`.
-    pub fn new(triangles: &[[u32; 3]], dofs: &DofMap) -> Self {
-        Self::with_dense_group(triangles, dofs, &[])
+    /// Builds the pattern of the couplings of the elements of `mesh` among the free unknowns
+    /// of `dofs`.
+    pub fn new(mesh: &FeMesh, dofs: &DofMap) -> Self {
+        Self::with_dense_group(mesh, dofs, &[])
+    }
+
+    /// The slots of element `e`'s couplings, row-major (n² entries).
+    #[inline]
+    pub fn element_slots(&self, e: usize) -> &[u32] {
+        let n2 = self.nodes_per_element * self.nodes_per_element;
+        &self.slots[e * n2..(e + 1) * n2]
     }
 
     /// As [`Self::new`], plus every coupling among the free unknowns `group` (a dense block,
     /// e.g. the surface nodes of an exact open boundary).
-    pub fn with_dense_group(triangles: &[[u32; 3]], dofs: &DofMap, group: &[usize]) -> Self {
+    pub fn with_dense_group(mesh: &FeMesh, dofs: &DofMap, group: &[usize]) -> Self {
         let n = dofs.n_free;
+        let ne = if mesh.order() == 2 { 6 } else { 3 };
         let mut cols: Vec<Vec<usize>> = vec![Vec::new(); n];
         for &i in group {
             for &j in group {
@@ -40,10 +53,11 @@ impl Pattern {
                 }
             }
         }
-        for tri in triangles {
-            let g = tri.map(|v| dofs.free(v));
-            for a in 0..3 {
-                for b in 0..3 {
+        for t in 0..mesh.triangles.len() {
+            let nodes = mesh.element_nodes(t);
+            let g: Vec<Option<usize>> = nodes.iter().map(|&v| dofs.free(v)).collect();
+            for a in 0..ne {
+                for b in 0..ne {
                     if let (Some(i), Some(j)) = (g[a], g[b]) {
                         if i >= j {
                             cols[j].push(i);
@@ -61,28 +75,28 @@ impl Pattern {
             row_idx.extend_from_slice(c);
             col_ptr.push(row_idx.len());
         }
-        let slots = triangles
-            .iter()
-            .map(|tri| {
-                let g = tri.map(|v| dofs.free(v));
-                let mut s = [NO_SLOT; 9];
-                for a in 0..3 {
-                    for b in 0..3 {
-                        if let (Some(i), Some(j)) = (g[a], g[b]) {
-                            if i >= j {
-                                let col = &row_idx[col_ptr[j]..col_ptr[j + 1]];
-                                // present by construction
-                                let k = col.binary_search(&i).unwrap_or(0);
-                                s[3 * a + b] = (col_ptr[j] + k) as u32;
-                            }
+        let mut slots = Vec::with_capacity(mesh.triangles.len() * ne * ne);
+        for t in 0..mesh.triangles.len() {
+            let nodes = mesh.element_nodes(t);
+            let g: Vec<Option<usize>> = nodes.iter().map(|&v| dofs.free(v)).collect();
+            for a in 0..ne {
+                for b in 0..ne {
+                    let mut s = NO_SLOT;
+                    if let (Some(i), Some(j)) = (g[a], g[b]) {
+                        if i >= j {
+                            let col = &row_idx[col_ptr[j]..col_ptr[j + 1]];
+                            // present by construction
+                            let k = col.binary_search(&i).unwrap_or(0);
+                            s = (col_ptr[j] + k) as u32;
                         }
                     }
+                    slots.push(s);
                 }
-                s
-            })
-            .collect();
+            }
+        }
         Self {
             n,
+            nodes_per_element: ne,
             col_ptr,
             row_idx,
             slots,

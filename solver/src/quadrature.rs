@@ -55,6 +55,37 @@ pub const DUNAVANT_5: [RulePoint; 7] = {
     ]
 };
 
+/// Dunavant's 12-point rule, exact for polynomials of degree 6 (Dunavant 1985, p = 6), for
+/// second-order elements: their stiffness integrands are degree 3 with the 2πr weight plus
+/// the bounded v·w/r term, and curved (isoparametric) elements add a smooth rational factor.
+pub const DUNAVANT_6: [RulePoint; 12] = {
+    const A: f64 = 0.249_286_745_170_910;
+    const WA: f64 = 0.116_786_275_726_379;
+    const B: f64 = 0.063_089_014_491_502;
+    const WB: f64 = 0.050_844_906_370_207;
+    const C0: f64 = 0.053_145_049_844_817;
+    const C1: f64 = 0.310_352_451_033_784;
+    const C2: f64 = 0.636_502_499_121_399;
+    const WC: f64 = 0.082_851_075_618_374;
+    const fn p(bary: [f64; 3], weight: f64) -> RulePoint {
+        RulePoint { bary, weight }
+    }
+    [
+        p([1.0 - 2.0 * A, A, A], WA),
+        p([A, 1.0 - 2.0 * A, A], WA),
+        p([A, A, 1.0 - 2.0 * A], WA),
+        p([1.0 - 2.0 * B, B, B], WB),
+        p([B, 1.0 - 2.0 * B, B], WB),
+        p([B, B, 1.0 - 2.0 * B], WB),
+        p([C0, C1, C2], WC),
+        p([C0, C2, C1], WC),
+        p([C1, C0, C2], WC),
+        p([C1, C2, C0], WC),
+        p([C2, C0, C1], WC),
+        p([C2, C1, C0], WC),
+    ]
+};
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -67,12 +98,11 @@ mod tests {
         2.0 * f(a) * f(b) * f(c) / f(a + b + c + 2)
     }
 
-    #[test]
-    fn dunavant_5_integrates_all_monomials_up_to_degree_5_exactly() {
-        for a in 0..=5u32 {
-            for b in 0..=(5 - a) {
-                for c in 0..=(5 - a - b) {
-                    let q: f64 = DUNAVANT_5
+    fn check(rule: &[RulePoint], degree: u32) {
+        for a in 0..=degree {
+            for b in 0..=(degree - a) {
+                for c in 0..=(degree - a - b) {
+                    let q: f64 = rule
                         .iter()
                         .map(|p| {
                             p.weight
@@ -85,5 +115,15 @@ mod tests {
                 }
             }
         }
+    }
+
+    #[test]
+    fn dunavant_5_integrates_all_monomials_up_to_degree_5_exactly() {
+        check(&DUNAVANT_5, 5);
+    }
+
+    #[test]
+    fn dunavant_6_integrates_all_monomials_up_to_degree_6_exactly() {
+        check(&DUNAVANT_6, 6);
     }
 }

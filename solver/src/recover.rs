@@ -1,7 +1,8 @@
 //! Recovered (smoothed) field at a point from a local least-squares fit of A_φ.
 //!
 //! First-order elements give B piecewise with O(h) error; a quadratic fit of the nodal A over
-//! the patch around the evaluating element recovers derivatives to higher order (the idea of
+//! the patch around the evaluating element (cubic for second-order elements, over corner and
+//! mid-edge nodes) recovers derivatives to higher order (the idea of
 //! Zienkiewicz & Zhu's superconvergent patch recovery, Int. J. Numer. Meth. Eng. 33, 1331,
 //! 1992, applied to the potential). Near the axis the fit uses A = r·(c0 + c1 ζ + c2 ζ² + c3 r²)
 //! (ζ = z − z_p), because A_φ of an axisymmetric field is odd in r; this makes B_z = 2 ∂A/∂r on
@@ -53,22 +54,28 @@ impl Patches {
     pub fn b_at(&self, model: &Model, sol: &Solution, e: usize, p: Point) -> Option<[f64; 2]> {
         let mesh = model.mesh();
         let tag = mesh.tags[e];
-        // Two rings of same-region elements around the evaluating element: enough nodes for a
-        // stable six-term fit even where the first ring is small.
-        let mut nodes: Vec<u32> = mesh.triangles[e].to_vec();
-        for _ring in 0..2 {
-            let mut next = nodes.clone();
-            for &v in &nodes {
+        // Rings of same-region elements around the evaluating element: two for first order
+        // (enough nodes for a stable six-term fit even where the first ring is small), one
+        // for second order, whose mid-edge nodes give a ten-term cubic fit enough points.
+        let quadratic = mesh.order() == 2;
+        let mut corners: Vec<u32> = mesh.triangles[e].to_vec();
+        let mut nodes: Vec<u32> = mesh.element_nodes(e).to_vec();
+        for _ring in 0..if quadratic { 1 } else { 2 } {
+            let mut next = corners.clone();
+            for &v in &corners {
                 for &f in self.around(v) {
                     if mesh.tags[f as usize] == tag {
                         next.extend_from_slice(&mesh.triangles[f as usize]);
+                        nodes.extend_from_slice(&mesh.element_nodes(f as usize));
                     }
                 }
             }
             next.sort_unstable();
             next.dedup();
-            nodes = next;
+            corners = next;
         }
+        nodes.sort_unstable();
+        nodes.dedup();
         let h = nodes
             .iter()
             .map(|&n| {
@@ -80,7 +87,12 @@ impl Patches {
             return None;
         }
         let near_axis = p[0] < h;
-        let ncoef = if near_axis { 4 } else { 6 };
+        let ncoef = match (near_axis, quadratic) {
+            (true, false) => 4,
+            (false, false) => 6,
+            (true, true) => 6,
+            (false, true) => 10,
+        };
         if nodes.len() < ncoef + 2 {
             return None;
         }
@@ -90,13 +102,35 @@ impl Patches {
         for (i, &n) in nodes.iter().enumerate() {
             let q = mesh.nodes[n as usize];
             let (x, y) = ((q[0] - p[0]) / h, (q[1] - p[1]) / h);
-            let row: Vec<f64> = if near_axis {
-                let s = q[0] / h;
-                vec![s, s * y, s * y * y, s * s * s]
+            let s = q[0] / h;
+            let row: [f64; 10] = if near_axis {
+                [
+                    s,
+                    s * y,
+                    s * y * y,
+                    s * s * s,
+                    s * y * y * y,
+                    s * s * s * y,
+                    0.0,
+                    0.0,
+                    0.0,
+                    0.0,
+                ]
             } else {
-                vec![1.0, x, y, x * x, x * y, y * y]
+                [
+                    1.0,
+                    x,
+                    y,
+                    x * x,
+                    x * y,
+                    y * y,
+                    x * x * x,
+                    x * x * y,
+                    x * y * y,
+                    y * y * y,
+                ]
             };
-            for (j, v) in row.into_iter().enumerate() {
+            for (j, v) in row.into_iter().take(ncoef).enumerate() {
                 m[(i, j)] = v;
             }
             rhs[i] = sol.a[n as usize] + 0.5 * sol.b0 * mesh.nodes[n as usize][0];
@@ -104,10 +138,15 @@ impl Patches {
         let c = m.svd(true, true).solve(&rhs, 1e-12);
         let c = c.ok()?;
         let b = if near_axis {
-            // A = c0 s + c1 s y + c2 s y² + c3 s³ with s = r/h, y = (z − z_p)/h; at y = 0:
-            // ∂A/∂z = c1 s/h, ∂A/∂r = (c0 + 3 c3 s²)/h, A/r = (c0 + c3 s²)/h.
+            // A = c0 s + c1 s y + c2 s y² + c3 s³ (+ c4 s y³ + c5 s³ y) with s = r/h,
+            // y = (z − z_p)/h; at y = 0: ∂A/∂z = (c1 s + c5 s³)/h, ∂A/∂r = (c0 + 3 c3 s²)/h,
+            // A/r = (c0 + c3 s²)/h.
             let s = p[0] / h;
-            [-c[1] * s / h, (2.0 * c[0] + 4.0 * c[3] * s * s) / h]
+            let c5 = if ncoef > 5 { c[5] } else { 0.0 };
+            [
+                -(c[1] * s + c5 * s * s * s) / h,
+                (2.0 * c[0] + 4.0 * c[3] * s * s) / h,
+            ]
         } else {
             [-c[2] / h, c[1] / h + c[0] / p[0]]
         };

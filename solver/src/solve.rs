@@ -64,17 +64,31 @@ impl Model {
             .map(|p| p[0])
             .fold(0.0, f64::max);
         let blend = BLEND_FACTOR * r_mag;
-        let geom: Vec<ElementGeometry> = (0..mesh.triangles.len())
-            .map(|e| {
-                let tri = mesh.triangles[e];
-                let flags = if magnetic[e] {
-                    [false; 3]
-                } else {
-                    tri.map(|v| flux[v as usize])
-                };
-                ElementGeometry::with_blend(mesh.corners(e), flags, blend)
-            })
-            .collect();
+        let geom: Vec<ElementGeometry> = if mesh.order() == 2 {
+            // Second order uses the plain basis throughout (see `element::tri6`).
+            (0..mesh.triangles.len())
+                .map(|e| {
+                    ElementGeometry::quadratic(mesh.element_points(e)).ok_or(
+                        SolverError::BadTriangle {
+                            triangle: e,
+                            area: mesh.signed_area(e),
+                        },
+                    )
+                })
+                .collect::<Result<_, _>>()?
+        } else {
+            (0..mesh.triangles.len())
+                .map(|e| {
+                    let tri = mesh.triangles[e];
+                    let flags = if magnetic[e] {
+                        [false; 3]
+                    } else {
+                        tri.map(|v| flux[v as usize])
+                    };
+                    ElementGeometry::with_blend(mesh.corners(e), flags, blend)
+                })
+                .collect()
+        };
         let fixed_nodes: Vec<u32> = fixed.iter().map(|&(n, _)| n).collect();
         if let Some(&bad) = fixed_nodes
             .iter()
@@ -107,7 +121,7 @@ impl Model {
             .iter()
             .flat_map(|x| x.nodes.iter().filter_map(|&n| dofs.free(n)))
             .collect();
-        let pattern = Pattern::with_dense_group(&mesh.triangles, &dofs, &group);
+        let pattern = Pattern::with_dense_group(&mesh, &dofs, &group);
         let exterior = exterior.map(|op| {
             let slots = group
                 .iter()
@@ -291,15 +305,9 @@ impl LinearOperator<'_> {
     /// background B_z `b0` (T), which is added exactly, not discretised.
     pub fn solve(&self, j_elem: &[f64], a_fixed: &[f64], b0: f64) -> Solution {
         let m = self.model;
-        let mut x = assembly::rhs(
-            &m.mesh.triangles,
-            &m.geom,
-            &m.dofs,
-            j_elem,
-            a_fixed,
-            b0,
-            |e, _| m.material(e).nu(0.0),
-        );
+        let mut x = assembly::rhs(&m.mesh, &m.geom, &m.dofs, j_elem, a_fixed, b0, |e, _| {
+            m.material(e).nu(0.0)
+        });
         self.factor.solve_in_place(&mut x);
         let a = m
             .dofs

@@ -17,40 +17,48 @@
 //! makes the residual vanish identically in empty air and reproduces the linear right-hand side.
 //! T is the Hessian of the convex magnetic energy, hence symmetric positive definite.
 
-use crate::element::ElementGeometry;
+use crate::element::{ElementGeometry, Local, LocalMatrix, MAX_NODES};
 use crate::material::Material;
+
+/// Mirrors the upper triangle of an `n`×`n` element matrix into the lower one.
+#[inline]
+fn symmetrise(k: &mut LocalMatrix, n: usize) {
+    for a in 0..n {
+        for b in 0..a {
+            k[a][b] = k[b][a];
+        }
+    }
+}
 
 /// Element stiffness for a reluctivity given per quadrature point by `nu(q)` (m/H).
 #[inline]
-pub fn stiffness(g: &ElementGeometry, nu: impl Fn(usize) -> f64) -> [[f64; 3]; 3] {
-    let mut k = [[0.0; 3]; 3];
+pub fn stiffness(g: &ElementGeometry, nu: impl Fn(usize) -> f64) -> LocalMatrix {
+    let n = g.nodes;
+    let mut k = [[0.0; MAX_NODES]; MAX_NODES];
     for (iq, q) in g.qp.iter().enumerate() {
         let w = nu(iq) * q.dv; // ν(x_q) dV
-        let c = [g.curl(0, q), g.curl(1, q), g.curl(2, q)]; // B(φ_a)
-        for a in 0..3 {
-            for b in a..3 {
+        let c = g.curls(q); // B(φ_a)
+        for a in 0..n {
+            for b in a..n {
                 k[a][b] += w * (c[a][0] * c[b][0] + c[a][1] * c[b][1]);
             }
         }
     }
-    // Symmetric: mirror the upper triangle.
-    let (k01, k02, k12) = (k[0][1], k[0][2], k[1][2]);
-    k[1][0] = k01;
-    k[2][0] = k02;
-    k[2][1] = k12;
+    symmetrise(&mut k, n);
     k
 }
 
 /// Element load for a uniform azimuthal current density `j` (A/m²).
 #[inline]
-pub fn load(g: &ElementGeometry, j: f64) -> [f64; 3] {
-    let mut f = [0.0; 3];
+pub fn load(g: &ElementGeometry, j: f64) -> Local {
+    let mut f = [0.0; MAX_NODES];
     if j == 0.0 {
         return f;
     }
     for q in &g.qp {
-        for (a, fa) in f.iter_mut().enumerate() {
-            *fa += j * g.phi(a, q) * q.dv; // J φ_a dV
+        let phi = g.phis(q);
+        for a in 0..g.nodes {
+            f[a] += j * phi[a] * q.dv; // J φ_a dV
         }
     }
     f
@@ -61,21 +69,23 @@ pub fn load(g: &ElementGeometry, j: f64) -> [f64; 3] {
 #[inline]
 pub fn residual_and_tangent(
     g: &ElementGeometry,
-    a: [f64; 3],
+    a: &Local,
     b0: f64,
     j: f64,
     mat: &Material,
     with_tangent: bool,
-) -> ([f64; 3], [[f64; 3]; 3]) {
+) -> (Local, LocalMatrix) {
+    let n = g.nodes;
     let nu0 = 1.0 / crate::MU0;
-    let mut r = [0.0; 3];
-    let mut t = [[0.0; 3]; 3];
+    let mut r = [0.0; MAX_NODES];
+    let mut t = [[0.0; MAX_NODES]; MAX_NODES];
     for q in &g.qp {
-        let c = [g.curl(0, q), g.curl(1, q), g.curl(2, q)]; // B(φ_a)
-        let bx = [
-            a[0] * c[0][0] + a[1] * c[1][0] + a[2] * c[2][0],
-            a[0] * c[0][1] + a[1] * c[1][1] + a[2] * c[2][1] + b0,
-        ];
+        let c = g.curls(q); // B(φ_a)
+        let mut bx = [0.0, b0];
+        for k in 0..n {
+            bx[0] += a[k] * c[k][0];
+            bx[1] += a[k] * c[k][1];
+        }
         let bm = bx[0].hypot(bx[1]);
         let (nu, nu_d) = if with_tangent {
             mat.reluctivities(bm)
@@ -83,8 +93,13 @@ pub fn residual_and_tangent(
             (mat.nu(bm), 0.0)
         };
         let hx = [nu * bx[0], nu * bx[1] - nu0 * b0]; // ν B − ν0 B0 e_z
-        for k in 0..3 {
-            r[k] += (hx[0] * c[k][0] + hx[1] * c[k][1] - j * g.phi(k, q)) * q.dv;
+        let phi = if j != 0.0 {
+            g.phis(q)
+        } else {
+            [0.0; MAX_NODES]
+        };
+        for k in 0..n {
+            r[k] += (hx[0] * c[k][0] + hx[1] * c[k][1] - j * phi[k]) * q.dv;
         }
         if with_tangent {
             let extra = if bm > 0.0 { nu_d - nu } else { 0.0 };
@@ -93,9 +108,12 @@ pub fn residual_and_tangent(
             } else {
                 [0.0, 0.0]
             };
-            let p = [0, 1, 2].map(|k| bh[0] * c[k][0] + bh[1] * c[k][1]); // b̂·B(φ_a)
-            for k in 0..3 {
-                for l in k..3 {
+            let mut p = [0.0; MAX_NODES];
+            for k in 0..n {
+                p[k] = bh[0] * c[k][0] + bh[1] * c[k][1]; // b̂·B(φ_a)
+            }
+            for k in 0..n {
+                for l in k..n {
                     t[k][l] +=
                         (nu * (c[k][0] * c[l][0] + c[k][1] * c[l][1]) + extra * p[k] * p[l]) * q.dv;
                 }
@@ -103,10 +121,7 @@ pub fn residual_and_tangent(
         }
     }
     if with_tangent {
-        let (t01, t02, t12) = (t[0][1], t[0][2], t[1][2]);
-        t[1][0] = t01;
-        t[2][0] = t02;
-        t[2][1] = t12;
+        symmetrise(&mut t, n);
     }
     (r, t)
 }
@@ -122,7 +137,10 @@ mod tests {
         let g = ElementGeometry::new(p);
         let b0 = 0.3;
         let nu = 2.0;
-        let a = p.map(|q| 0.5 * b0 * q[0]);
+        let mut a = [0.0; MAX_NODES];
+        for (ai, q) in a.iter_mut().zip(p) {
+            *ai = 0.5 * b0 * q[0];
+        }
         let k = stiffness(&g, |_| nu);
         let mut e = 0.0;
         for i in 0..3 {

@@ -8,6 +8,7 @@ use axicore_solver::exterior::OpenBoundary;
 use axicore_solver::locate::Locator;
 use axicore_solver::post::indicator::{self, ElementIndicator};
 use axicore_solver::post::{dipole, energy, flux, probe};
+use axicore_solver::quadratic;
 use axicore_solver::{FeMesh, Model, Problem, RegionProps, Solution, SolverError};
 
 use crate::case::Case;
@@ -113,17 +114,40 @@ pub fn discretise_refined(
     for (k, w) in case.windings.iter().enumerate() {
         regions[winding_tag(k) as usize].current_density = w.current_density();
     }
+    let ro = case.effective_air_radius();
+    let first = FeMesh {
+        nodes: mesh.nodes.clone(),
+        triangles: mesh.triangles.clone(),
+        tags: mesh.tags.clone(),
+        mid: Vec::new(),
+    };
+    let mut kinds = mesh.node_kinds.clone();
+    let fe_mesh = if case.mesh.order == 2 {
+        let (fe, added) = quadratic::elevate(&first, &outlines(case, ro));
+        for (k, m) in added.iter().enumerate() {
+            let parent = m.parents.map(|p| mesh.node_kinds[p as usize]);
+            let kind = if fe.nodes[mesh.nodes.len() + k][0] == 0.0 {
+                NodeKind::Axis
+            } else if m.on_boundary && parent.iter().all(|k| *k != NodeKind::Interior) {
+                NodeKind::Outer
+            } else {
+                NodeKind::Interior
+            };
+            kinds.push(kind);
+        }
+        fe
+    } else {
+        first
+    };
     // A = 0 on the axis. On the outer arc either the exact exterior (open boundary) or the
     // reaction part vanishes, so A = B0 r/2 there (the solver adds the background exactly).
-    let outer: Vec<u32> = mesh
-        .node_kinds
+    let outer: Vec<u32> = kinds
         .iter()
         .enumerate()
         .filter(|(_, k)| **k == NodeKind::Outer)
         .map(|(i, _)| i as u32)
         .collect();
-    let fixed = mesh
-        .node_kinds
+    let fixed = kinds
         .iter()
         .enumerate()
         .filter_map(|(i, kind)| match kind {
@@ -132,24 +156,41 @@ pub fn discretise_refined(
             _ => None,
         })
         .collect();
-    let ro = case.effective_air_radius();
     let open_boundary = case.open_boundary.then(|| OpenBoundary {
         radius: ro,
         modes: exterior_modes(ro / case.source_radius(), outer.len()),
         nodes: outer,
     });
     let problem = Problem {
-        mesh: FeMesh {
-            nodes: mesh.nodes.clone(),
-            triangles: mesh.triangles.clone(),
-            tags: mesh.tags.clone(),
-        },
+        mesh: fe_mesh,
         regions,
         fixed,
         background_b: case.background_b,
         open_boundary,
     };
     Ok(Discretised { mesh, problem })
+}
+
+/// The curved outlines second-order elements follow: a sphere or spheroid core, and the outer
+/// air sphere of radius `ro`.
+fn outlines(case: &Case, ro: f64) -> Vec<quadratic::Outline> {
+    let mut out = vec![quadratic::Outline::Ellipse {
+        centre_z: 0.0,
+        semi_r: ro,
+        semi_z: ro,
+    }];
+    if let Some(core) = &case.core {
+        if let crate::case::CoreShape::Sphere { .. } | crate::case::CoreShape::Spheroid { .. } =
+            core.shape
+        {
+            out.push(quadratic::Outline::Ellipse {
+                centre_z: core.centre,
+                semi_r: core.shape.radius(),
+                semi_z: core.shape.half_length(),
+            });
+        }
+    }
+    out
 }
 
 /// Whether `p` lies within two element sizes of the axis (size: longest edge of the element
@@ -357,7 +398,7 @@ pub fn run_from(
         background_b_T: case.background_b,
         air_radius_m: ro,
         ball_radius_m: rb,
-        nodes: stats.nodes,
+        nodes: model.mesh().nodes.len(),
         triangles: stats.triangles,
         unknowns: model.unknowns(),
         mesh: MeshReport {

@@ -1,8 +1,11 @@
 //! Finite elements: shape functions and per-element geometry.
 //!
-//! Only the 3-node triangle exists so far; higher order plugs in beside it with the same
-//! [`ElementGeometry`] contract (values and physical gradients at quadrature points).
+//! [`ElementGeometry`] is the one contract the weak form, assembly and post-processing read:
+//! basis values and B-operators at quadrature points, for first-order ([`tri3`]) and
+//! second-order isoparametric ([`tri6`]) triangles alike.
 
+pub mod geometry;
 pub mod tri3;
+pub mod tri6;
 
-pub use tri3::{ElementGeometry, QuadPoint};
+pub use geometry::{ElementGeometry, Local, LocalMatrix, QuadPoint, MAX_NODES};

@@ -144,12 +144,24 @@ pub fn vtu_bytes(
         reason,
     };
     let points: Vec<f64> = mesh.nodes.iter().flat_map(|p| [p[0], p[1], 0.0]).collect();
-    let connectivity: Vec<u64> = mesh
-        .triangles
-        .iter()
-        .flat_map(|t| t.map(u64::from))
+    // VTK's quadratic triangle lists the corners, then the nodes of edges 0–1, 1–2, 2–0: the
+    // order `FeMesh` keeps.
+    let (per_cell, cell_type) = if mesh.order() == 2 {
+        (6, CellType::QuadraticTriangle)
+    } else {
+        (3, CellType::Triangle)
+    };
+    let connectivity: Vec<u64> = (0..mesh.triangles.len())
+        .flat_map(|t| {
+            mesh.element_nodes(t)
+                .iter()
+                .map(|&n| u64::from(n))
+                .collect::<Vec<_>>()
+        })
         .collect();
-    let offsets: Vec<u64> = (1..=mesh.triangles.len() as u64).map(|i| 3 * i).collect();
+    let offsets: Vec<u64> = (1..=mesh.triangles.len() as u64)
+        .map(|i| per_cell * i)
+        .collect();
     let mut data = Attributes::new();
     for a in point_arrays {
         data.point.push(array_attribute(a));
@@ -173,7 +185,7 @@ pub fn vtu_bytes(
                         connectivity,
                         offsets,
                     },
-                    types: vec![CellType::Triangle; mesh.triangles.len()],
+                    types: vec![cell_type; mesh.triangles.len()],
                 },
                 data,
             }))],

@@ -33,6 +33,19 @@ pub struct ElementIndicator {
     pub weight: f64,
 }
 
+/// The element's own field to compare with the recovered one at its centroid `c`: the volume
+/// mean for first order (a constant field up to the flux basis), the value at `c` for second.
+fn element_b(model: &Model, sol: &Solution, e: usize, c: Point) -> [f64; 2] {
+    let g = &model.geometry()[e];
+    if g.is_quadratic() {
+        let l = g.invert(c, [1.0 / 3.0; 3]);
+        let b = g.b_at_bary(&sol.element_values(model, e), l, c[0]);
+        [b[0], b[1] + sol.b0]
+    } else {
+        sol.b_mean(model, e)
+    }
+}
+
 /// Energy indicators of every element, in element order.
 pub fn energy_indicators(
     model: &Model,
@@ -44,7 +57,7 @@ pub fn energy_indicators(
         .into_par_iter()
         .map(|e| {
             let (centroid, size) = (mesh.centroid(e), mesh.longest_edge(e));
-            let bh = sol.b_mean(model, e);
+            let bh = element_b(model, sol, e, centroid);
             let weight = match locator.patches().b_at(model, sol, e, centroid) {
                 Some(br) => {
                     let d2 = (br[0] - bh[0]).powi(2) + (br[1] - bh[1]).powi(2);
@@ -75,7 +88,7 @@ pub fn dipole_dual(model: &Model, sol: &Solution) -> Result<Option<Solution>, So
             continue;
         }
         any = true;
-        let tri = model.mesh().triangles[e];
+        let tri = model.mesh().element_nodes(e);
         for q in &geom.qp {
             let b = sol.b_q(model, e, q);
             let bm = b[0].hypot(b[1]);
@@ -85,9 +98,10 @@ pub fn dipole_dual(model: &Model, sol: &Solution) -> Result<Option<Solution>, So
             } else {
                 [0.0, 0.0]
             };
+            let curls = geom.curls(q);
             for (k, &v) in tri.iter().enumerate() {
                 if let Some(i) = dofs.free(v) {
-                    let c = geom.curl(k, q);
+                    let c = curls[k];
                     // (T B(φ))_z = ν B_z(φ) + (ν_d − ν)(b̂·B(φ)) b̂_z
                     let t_z = nu * c[1] + (nu_d - nu) * (bh[0] * c[0] + bh[1] * c[1]) * bh[1];
                     g[i] += (nu0 * c[1] - t_z) * q.dv;
@@ -127,8 +141,8 @@ pub fn goal_indicators(
                 patches.b_at(model, &dual, e, centroid),
             ) {
                 (Some(br), Some(zr)) => {
-                    let bh = sol.b_mean(model, e);
-                    let zh = dual.b_mean(model, e);
+                    let bh = element_b(model, sol, e, centroid);
+                    let zh = element_b(model, &dual, e, centroid);
                     let nu = model.material(e).nu(bh[0].hypot(bh[1]));
                     let dot = (br[0] - bh[0]) * (zr[0] - zh[0]) + (br[1] - bh[1]) * (zr[1] - zh[1]);
                     (nu * dot * model.geometry()[e].volume()).abs()

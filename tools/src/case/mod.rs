@@ -188,6 +188,8 @@ pub struct MeshControls {
     pub arc_tolerance: Option<f64>,
     /// Node cap.
     pub max_nodes: usize,
+    /// Element order: 1 (3-node) or 2 (6-node, curved edges on curved outlines).
+    pub order: usize,
 }
 
 impl MeshControls {
@@ -213,6 +215,7 @@ impl Default for MeshControls {
             min_angle_deg: 25.0,
             arc_tolerance: None,
             max_nodes: 2_000_000,
+            order: 1,
         }
     }
 }

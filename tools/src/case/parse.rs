@@ -429,8 +429,14 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         "min_angle",
         "arc_tolerance",
         "max_nodes",
+        "order",
     ])?;
     let d = MeshControls::default();
+    let order = match s.positive("order", Dimension::Dimensionless)? {
+        None => d.order,
+        Some(o) if o == 1.0 || o == 2.0 => o as usize,
+        Some(_) => return Err(s.fault("order", "must be 1 or 2")),
+    };
     let min_angle_deg = s
         .positive("min_angle", Dimension::Dimensionless)?
         .unwrap_or(d.min_angle_deg);
@@ -469,6 +475,7 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         min_angle_deg,
         arc_tolerance,
         max_nodes,
+        order,
     })
 }
 
