@@ -2,7 +2,7 @@
 //!
 //! Source of the exact value: the section integral m = N I π (a1² + a1a2 + a2²)/3 (derived in
 //! air_core_thick_winding_montgomery.rs). The field-route estimator integrates A over a sphere;
-//! for first-order elements the L2 error of A, and so this error, falls like h² (Ciarlet, *The
+//! for first-order elements (`order = 1`) the L2 error of A, and so this error, falls like h² (Ciarlet, *The
 //! Finite Element Method for Elliptic Problems*, 1978, Thm. 3.2.5, Aubin–Nitsche). `fineness`
 //! scales every element size and the grading by 1/fineness, so h ∝ 1/fineness.
 //! The fitted log–log slope over fineness 1, 2, 4 must lie within 2 ± 0.4, and the error must
@@ -20,7 +20,7 @@ fn air_coil_dipole_error_falls_like_h_squared() {
     for f in [1.0f64, 2.0, 4.0] {
         let out = solve(
             &format!(
-                "[[winding]]\nturns = 1000\ncurrent = \"1 A\"\ninner_radius = \"10 mm\"\nouter_radius = \"20 mm\"\nlength = \"100 mm\"\n[mesh]\nfineness = {f}\n"
+                "[[winding]]\nturns = 1000\ncurrent = \"1 A\"\ninner_radius = \"10 mm\"\nouter_radius = \"20 mm\"\nlength = \"100 mm\"\n[mesh]\nfineness = {f}\norder = 1\n"
             ),
             &RunOptions::default(),
         );

@@ -2,7 +2,7 @@
 """Reads an axicore .vtu back with a general-purpose reader (meshio) and checks it.
 
 Usage: check_vtu.py FILE.vtu EXPECTED_TRIANGLES
-Checks: cell count and type, region ids present (0 air, 1 core, >= 2 windings), the point and
+Checks: cell count and type (3-node or 6-node triangles), region ids present (0 air, 1 core, >= 2 windings), the point and
 cell array names, and that the arrays hold finite values in physically sensible ranges.
 """
 import math
@@ -12,8 +12,11 @@ import meshio
 
 path, expected = sys.argv[1], int(sys.argv[2])
 m = meshio.read(path)
-tri = [c for c in m.cells if c.type == "triangle"]
+# Second-order meshes (the default) are written as 6-node quadratic triangles.
+tri = [c for c in m.cells if c.type in ("triangle", "triangle6")]
 assert len(tri) == 1, f"expected one triangle block, got {[c.type for c in m.cells]}"
+if tri[0].type == "triangle6":
+    assert tri[0].data.shape[1] == 6, "quadratic triangles need 6 nodes"
 n = len(tri[0].data)
 assert n == expected, f"{n} triangles, expected {expected}"
 for name in ("A_phi_Wb_per_m", "flux_Wb"):

@@ -32,15 +32,33 @@ impl Outline {
         (p[0] / semi_r).powi(2) + ((p[1] - centre_z) / semi_z).powi(2) - 1.0
     }
 
-    /// The point of the outline at the same elliptic angle as `p`.
+    /// A point of the outline near `p`, reached along the level set's gradient (Newton steps
+    /// on the level): nearly the orthogonal projection. (Moving at a fixed elliptic angle
+    /// instead shifts points of a slender spheroid along its axis by far more than their
+    /// distance to it, and folds elements.)
     fn project(&self, p: Point) -> Point {
         let Outline::Ellipse {
             centre_z,
             semi_r,
             semi_z,
         } = *self;
-        let t = ((p[1] - centre_z) / semi_z).atan2(p[0] / semi_r);
-        [semi_r * t.cos(), centre_z + semi_z * t.sin()]
+        let mut x = p;
+        for _ in 0..6 {
+            let f = self.level(x);
+            let g = [
+                2.0 * x[0] / (semi_r * semi_r),
+                2.0 * (x[1] - centre_z) / (semi_z * semi_z),
+            ];
+            let g2 = g[0] * g[0] + g[1] * g[1];
+            if g2 == 0.0 {
+                break;
+            }
+            x = [x[0] - f * g[0] / g2, x[1] - f * g[1] / g2];
+            if f.abs() < 1e-15 {
+                break;
+            }
+        }
+        x
     }
 }
 
@@ -53,15 +71,16 @@ pub struct MidNode {
     pub on_boundary: bool,
 }
 
-/// Polygon vertices within this relative distance of an outline count as on it (the
-/// mesher's chord sagitta is 1e-4 of the semi-axis by default; points it adds on boundary
-/// segments lie on chords).
-const ON_OUTLINE: f64 = 1e-2;
+/// Polygon vertices whose level (r/a)² + ((z − c)/b)² − 1 is below this count as on an
+/// outline: about 7 % of the semi-axis, above the largest chord sagitta the mesher is allowed
+/// (5 %; points it adds on boundary segments lie on chords). Only boundary and interface edges
+/// are considered, and both corners must be near the same outline.
+const ON_OUTLINE: f64 = 0.15;
 
 /// The second-order version of the first-order `mesh`: nodes numbered after the corners in
 /// order of first appearance (triangle order, edges 0–1, 1–2, 2–0), so the numbering is
-/// deterministic. Mid-edge nodes of boundary and interface edges whose corners lie on an
-/// outline are moved onto it, unless that would fold an element.
+/// deterministic. Boundary and interface edges whose corners lie near an outline are moved
+/// onto it, corners and mid node, unless that would fold an element.
 pub fn elevate(mesh: &FeMesh, outlines: &[Outline]) -> (FeMesh, Vec<MidNode>) {
     let nv = mesh.nodes.len() as u32;
     let mut index: HashMap<(u32, u32), (u32, usize, u32)> = HashMap::new();
@@ -100,24 +119,56 @@ pub fn elevate(mesh: &FeMesh, outlines: &[Outline]) -> (FeMesh, Vec<MidNode>) {
             }
         }
     }
-    let mut nodes = mesh.nodes.clone();
-    let mut moved = vec![false; added.len()];
+    // Corners of edges on an outline move onto it first (points the mesher added on boundary
+    // segments lie on chords), then every mid node is placed: the edge's midpoint, projected
+    // onto the outline for outline edges.
+    let nv = nv as usize;
+    let mut outline_of: Vec<Option<usize>> = vec![None; added.len()];
     for (k, a) in added.iter().enumerate() {
         let (p, q) = (
             mesh.nodes[a.parents[0] as usize],
             mesh.nodes[a.parents[1] as usize],
         );
-        let mut x = [0.5 * (p[0] + q[0]), 0.5 * (p[1] + q[1])];
-        if (a.on_boundary || interface[k]) && x[0] > 0.0 {
-            if let Some(o) = outlines
+        if (a.on_boundary || interface[k]) && p[0] + q[0] > 0.0 {
+            outline_of[k] = outlines
                 .iter()
-                .find(|o| o.level(p).abs() < ON_OUTLINE && o.level(q).abs() < ON_OUTLINE)
-            {
-                x = o.project(x);
-                moved[k] = true;
+                .position(|o| o.level(p).abs() < ON_OUTLINE && o.level(q).abs() < ON_OUTLINE);
+        }
+    }
+    let original = mesh.nodes.clone();
+    let mut nodes = mesh.nodes.clone();
+    let mut vertex_outline: Vec<Option<usize>> = vec![None; nv];
+    for (k, a) in added.iter().enumerate() {
+        if let Some(o) = outline_of[k] {
+            for &v in &a.parents {
+                // A vertex on the axis stays there (the projection keeps r = 0 only for the
+                // poles, and they are already on the outline).
+                if original[v as usize][0] > 0.0 {
+                    vertex_outline[v as usize] = Some(o);
+                }
             }
         }
-        nodes.push(x);
+    }
+    for (v, o) in vertex_outline.iter().enumerate() {
+        if let Some(o) = o {
+            nodes[v] = outlines[*o].project(original[v]);
+        }
+    }
+    let place = |nodes: &mut Vec<Point>, k: usize, outline: Option<usize>| {
+        let [u, v] = added[k].parents;
+        let (p, q) = (nodes[u as usize], nodes[v as usize]);
+        let mut x = [0.5 * (p[0] + q[0]), 0.5 * (p[1] + q[1])];
+        if let Some(o) = outline {
+            x = outlines[o].project(x);
+        }
+        if nodes.len() == nv + k {
+            nodes.push(x);
+        } else {
+            nodes[nv + k] = x;
+        }
+    };
+    for k in 0..added.len() {
+        place(&mut nodes, k, outline_of[k]);
     }
     let mut out = FeMesh {
         nodes,
@@ -126,19 +177,29 @@ pub fn elevate(mesh: &FeMesh, outlines: &[Outline]) -> (FeMesh, Vec<MidNode>) {
         mid,
     };
     // Undo moves that fold an element (possible only where the mesh is coarse against the
-    // curvature), then re-check: an element is valid once all its mid nodes are straight.
-    for t in 0..out.triangles.len() {
-        let has_moved = out.mid[t].iter().any(|&n| moved[(n - nv) as usize]);
-        if has_moved && ElementGeometry::quadratic(out.element_points(t)).is_none() {
-            for &n in &out.mid[t] {
-                let k = (n - nv) as usize;
-                if moved[k] {
-                    let [u, v] = added[k].parents;
-                    let (p, q) = (out.nodes[u as usize], out.nodes[v as usize]);
-                    out.nodes[n as usize] = [0.5 * (p[0] + q[0]), 0.5 * (p[1] + q[1])];
-                    moved[k] = false;
-                }
+    // curvature): its corners go back to the mesher's positions and its edges straighten,
+    // with the edges of neighbours re-placed; repeated until every element is valid.
+    for _pass in 0..8 {
+        let bad: Vec<usize> = (0..out.triangles.len())
+            .filter(|&t| {
+                out.signed_area(t) <= 0.0
+                    || ElementGeometry::quadratic(out.element_points(t)).is_none()
+            })
+            .collect();
+        if bad.is_empty() {
+            break;
+        }
+        for t in bad {
+            for &v in &out.triangles[t] {
+                out.nodes[v as usize] = original[v as usize];
+                vertex_outline[v as usize] = None;
             }
+            for &n in &out.mid[t] {
+                outline_of[n as usize - nv] = None;
+            }
+        }
+        for k in 0..added.len() {
+            place(&mut out.nodes, k, outline_of[k]);
         }
     }
     (out, added)

@@ -65,15 +65,19 @@ impl Model {
             .fold(0.0, f64::max);
         let blend = BLEND_FACTOR * r_mag;
         let geom: Vec<ElementGeometry> = if mesh.order() == 2 {
-            // Second order uses the plain basis throughout (see `element::tri6`).
             (0..mesh.triangles.len())
                 .map(|e| {
-                    ElementGeometry::quadratic(mesh.element_points(e)).ok_or(
-                        SolverError::BadTriangle {
+                    let mut flags = [false; 6];
+                    if !magnetic[e] {
+                        for (k, &v) in mesh.element_nodes(e).iter().enumerate() {
+                            flags[k] = flux[v as usize];
+                        }
+                    }
+                    ElementGeometry::quadratic_with_blend(mesh.element_points(e), flags, blend)
+                        .ok_or(SolverError::BadTriangle {
                             triangle: e,
                             area: mesh.signed_area(e),
-                        },
-                    )
+                        })
                 })
                 .collect::<Result<_, _>>()?
         } else {
@@ -367,7 +371,7 @@ pub fn flux_nodes(mesh: &FeMesh, magnetic: &[bool]) -> Vec<bool> {
     let mut all_magnetic = vec![true; mesh.nodes.len()];
     for (e, tri) in mesh.triangles.iter().enumerate() {
         let on_axis = tri.iter().any(|&v| mesh.nodes[v as usize][0] == 0.0);
-        for &v in tri {
+        for &v in mesh.element_nodes(e).iter() {
             if on_axis {
                 flux[v as usize] = false;
             }

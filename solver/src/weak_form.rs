@@ -153,6 +153,52 @@ mod tests {
     }
 
     #[test]
+    fn tangent_is_the_derivative_of_the_residual_for_both_orders() {
+        // Central differences of R along a direction δ against T δ, on a saturating law at a
+        // field well into its knee, for a first-order and a curved second-order element.
+        let mat = Material::Saturable(std::sync::Arc::new(
+            crate::material::SaturationLaw::Arctan {
+                js: 1.5,
+                mu_ri: 1000.0,
+            },
+        ));
+        let p3 = [[0.2, 0.0], [0.6, 0.1], [0.3, 0.5]];
+        let mut p6 = [p3[0], p3[1], p3[2], [0.4, 0.05], [0.45, 0.3], [0.25, 0.25]];
+        p6[4][0] += 0.03;
+        let geoms = [
+            ElementGeometry::new(p3),
+            ElementGeometry::quadratic(p6).unwrap(),
+        ];
+        for g in &geoms {
+            let n = g.nodes;
+            let mut a = [0.0; MAX_NODES];
+            let mut d = [0.0; MAX_NODES];
+            for k in 0..n {
+                a[k] = 0.4 * g.points[k][0] * (1.0 + 0.3 * k as f64);
+                d[k] = 0.01 * (1.0 + ((k * 7) % 5) as f64);
+            }
+            let (_, t) = residual_and_tangent(g, &a, 0.05, 1e5, &mat, true);
+            let eps = 1e-6;
+            let shifted = |s: f64| {
+                let mut x = a;
+                for k in 0..n {
+                    x[k] += s * d[k];
+                }
+                residual_and_tangent(g, &x, 0.05, 1e5, &mat, false).0
+            };
+            let (rp, rm) = (shifted(eps), shifted(-eps));
+            for k in 0..n {
+                let fd = (rp[k] - rm[k]) / (2.0 * eps);
+                let td: f64 = (0..n).map(|l| t[k][l] * d[l]).sum();
+                assert!(
+                    (fd - td).abs() <= 1e-6 * td.abs().max(1e-3),
+                    "{k}: {fd} vs {td}"
+                );
+            }
+        }
+    }
+
+    #[test]
     fn load_sums_to_current_times_ring_volume() {
         // Σ_a f_a = ∫ J dV because Σ N_a = 1.
         let g = ElementGeometry::new([[1.0, 0.0], [2.0, 0.0], [1.0, 1.0]]);

@@ -41,9 +41,9 @@ pub struct ElementGeometry {
     pub dn_dz: [f64; 3],
     /// Quadrature points with 2πr-weighted measures.
     pub qp: Vec<QuadPoint>,
-    /// First order, per node: r_i for a flux node (basis N_i·r_i/r), 0 for a plain node.
-    pub flux_radius: [f64; 3],
-    /// Blend length ℓ of first-order flux nodes in m (0: pure flux basis).
+    /// Per node: r_i for a flux node (basis N_i·r_i/r, blended), 0 for a plain node (N_i).
+    pub flux_radius: [f64; MAX_NODES],
+    /// Blend length ℓ of flux nodes in m (0: pure flux basis).
     pub blend: f64,
     /// Node coordinates (corners, then mid-edge nodes for second order).
     pub points: [Point; MAX_NODES],
@@ -94,7 +94,12 @@ impl ElementGeometry {
                 }
             })
             .collect();
-        let flux_radius = [0, 1, 2].map(|i| if flux[i] { p[i][0] } else { 0.0 });
+        let mut flux_radius = [0.0; MAX_NODES];
+        for i in 0..3 {
+            if flux[i] {
+                flux_radius[i] = p[i][0];
+            }
+        }
         let mut points = [[0.0; 2]; MAX_NODES];
         points[..3].copy_from_slice(&p);
         Self {
@@ -110,9 +115,17 @@ impl ElementGeometry {
     }
 
     /// Second-order isoparametric geometry through six nodes `p` (corners counter-clockwise,
-    /// then the nodes of edges 0–1, 1–2, 2–0), or None when the map folds (det J ≤ 0 at a
-    /// quadrature point or a node).
+    /// then the nodes of edges 0–1, 1–2, 2–0), plain basis, or None when the map folds
+    /// (det J ≤ 0 at a quadrature point or a node).
     pub fn quadratic(p: [Point; 6]) -> Option<Self> {
+        Self::quadratic_with_blend(p, [false; 6], 0.0)
+    }
+
+    /// As [`Self::quadratic`], with node i a flux node where `flux[i]`, blended towards the
+    /// plain basis below the blend length as in [`Self::with_blend`]: the flux function rA is
+    /// then interpolated quadratically, which holds both the uniform field (rA = B r²/2) and
+    /// the 1/r potential beside a slender core (rA = const) exactly.
+    pub fn quadratic_with_blend(p: [Point; 6], flux: [bool; 6], blend: f64) -> Option<Self> {
         let (_, dn_dr, dn_dz) = straight_gradients([p[0], p[1], p[2]]);
         let rule: &[RulePoint] = &DUNAVANT_6;
         let mut qp = Vec::with_capacity(rule.len());
@@ -147,14 +160,20 @@ impl ElementGeometry {
         {
             return None;
         }
+        let mut flux_radius = [0.0; MAX_NODES];
+        for i in 0..6 {
+            if flux[i] {
+                flux_radius[i] = p[i][0];
+            }
+        }
         Some(Self {
             nodes: 6,
             area,
             dn_dr,
             dn_dz,
             qp,
-            flux_radius: [0.0; 3],
-            blend: 0.0,
+            flux_radius,
+            blend,
             points: p,
         })
     }
@@ -172,14 +191,16 @@ impl ElementGeometry {
     /// Basis function i at barycentric coordinates `l` and radius `r`.
     #[inline]
     pub fn basis(&self, i: usize, l: [f64; 3], r: f64) -> f64 {
-        if self.is_quadratic() {
-            return tri6::values(l)[i];
-        }
-        let ri = self.flux_radius[i];
-        if ri > 0.0 {
-            l[i] * tri3::flux_factor(self.blend, ri, r).0
+        let n = if self.is_quadratic() {
+            tri6::values(l)[i]
         } else {
             l[i]
+        };
+        let ri = self.flux_radius[i];
+        if ri > 0.0 {
+            n * tri3::flux_factor(self.blend, ri, r).0
+        } else {
+            n
         }
     }
 
@@ -187,19 +208,29 @@ impl ElementGeometry {
     pub fn curl_at(&self, i: usize, l: [f64; 3], r: f64) -> [f64; 2] {
         if self.is_quadratic() {
             let (jinv, _) = tri6::inverse_jacobian(self.six(), l);
-            return tri6_curl(i, l, r, &jinv);
+            let n = tri6::values(l)[i];
+            let d = tri6::physical_gradient(tri6::reference_gradients(l)[i], &jinv);
+            return self.curl_from(i, n, d, r);
         }
         self.curl_linear(i, l[i], r)
     }
 
     #[inline]
     fn curl_linear(&self, i: usize, n_i: f64, r: f64) -> [f64; 2] {
+        self.curl_from(i, n_i, [self.dn_dr[i], self.dn_dz[i]], r)
+    }
+
+    /// B-operator of node i's basis from its shape value `n`, shape gradient `d` = (∂N/∂r,
+    /// ∂N/∂z) and the radius: plain (−∂N/∂z, ∂N/∂r + N/r), or for φ = N·g(r) of a flux node
+    /// (−g ∂N/∂z, g ∂N/∂r + N (g' + g/r)).
+    #[inline]
+    fn curl_from(&self, i: usize, n: f64, d: [f64; 2], r: f64) -> [f64; 2] {
         let ri = self.flux_radius[i];
         if ri > 0.0 {
             let (g, h) = tri3::flux_factor(self.blend, ri, r);
-            [-g * self.dn_dz[i], g * self.dn_dr[i] + n_i * h]
+            [-g * d[1], g * d[0] + n * h]
         } else {
-            [-self.dn_dz[i], self.dn_dr[i] + n_i / r]
+            [-d[1], d[0] + n / r]
         }
     }
 
@@ -213,7 +244,7 @@ impl ElementGeometry {
             let g = tri6::reference_gradients(q.n);
             for i in 0..6 {
                 let d = tri6::physical_gradient(g[i], &q.jinv);
-                c[i] = [-d[1], d[0] + n[i] / q.r];
+                c[i] = self.curl_from(i, n[i], d, q.r);
             }
         } else {
             for (i, ci) in c.iter_mut().enumerate().take(3) {
@@ -227,7 +258,9 @@ impl ElementGeometry {
     #[inline]
     pub fn curl(&self, i: usize, q: &QuadPoint) -> [f64; 2] {
         if self.is_quadratic() {
-            tri6_curl(i, q.n, q.r, &q.jinv)
+            let n = tri6::values(q.n)[i];
+            let d = tri6::physical_gradient(tri6::reference_gradients(q.n)[i], &q.jinv);
+            self.curl_from(i, n, d, q.r)
         } else {
             self.curl_linear(i, q.n[i], q.r)
         }
@@ -239,6 +272,12 @@ impl ElementGeometry {
         let mut v = [0.0; MAX_NODES];
         if self.is_quadratic() {
             v = tri6::values(q.n);
+            for (i, vi) in v.iter_mut().enumerate() {
+                let ri = self.flux_radius[i];
+                if ri > 0.0 {
+                    *vi *= tri3::flux_factor(self.blend, ri, q.r).0;
+                }
+            }
         } else {
             for (i, vi) in v.iter_mut().enumerate().take(3) {
                 *vi = self.basis(i, q.n, q.r);
@@ -353,13 +392,6 @@ impl ElementGeometry {
     }
 }
 
-#[inline]
-fn tri6_curl(i: usize, l: [f64; 3], r: f64, jinv: &[[f64; 2]; 2]) -> [f64; 2] {
-    let n = tri6::values(l)[i];
-    let d = tri6::physical_gradient(tri6::reference_gradients(l)[i], jinv);
-    [-d[1], d[0] + n / r]
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -443,6 +475,21 @@ mod tests {
         for q in &g.qp {
             let b = g.b_at(&a, q);
             assert!((b[0] + q.r).abs() < 1e-13 && (b[1] - 2.0 * q.z).abs() < 1e-13);
+        }
+    }
+
+    #[test]
+    fn second_order_flux_basis_holds_both_the_uniform_field_and_a_flux_function() {
+        // rA quadratic: A = c/r (no field) and A = B r/2 (uniform B) are both exact.
+        let six = midpoints([[1.0, 0.0], [1.5, 0.2], [1.1, 0.6]]);
+        let g = ElementGeometry::quadratic_with_blend(six, [true; 6], 0.0).unwrap();
+        let a = local(&six.map(|q| 2.0 / q[0]));
+        let u = local(&six.map(|q| 0.5 * 0.7 * q[0]));
+        for q in &g.qp {
+            let b = g.b_at(&a, q);
+            assert!(b[0].abs() < 1e-12 && b[1].abs() < 1e-12, "{b:?}");
+            let b = g.b_at(&u, q);
+            assert!(b[0].abs() < 1e-12 && (b[1] - 0.7).abs() < 1e-12, "{b:?}");
         }
     }
 
