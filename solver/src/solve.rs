@@ -28,6 +28,8 @@ pub struct Model {
     /// Constant element stiffness of linear elements for the Newton residual (lazy).
     pub(crate) linear_elements: std::sync::OnceLock<Vec<Option<crate::nonlinear::LinearElement>>>,
     pub(crate) exterior: Option<Exterior>,
+    /// The open boundary as posed (to pose the first-order companion problem).
+    pub(crate) open_boundary: Option<OpenBoundary>,
 }
 
 /// The exact open boundary's operator with its place in the pattern.
@@ -156,6 +158,7 @@ impl Model {
             background: background_b,
             linear_elements: std::sync::OnceLock::new(),
             exterior,
+            open_boundary: open_boundary.clone(),
         })
     }
 

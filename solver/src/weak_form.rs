@@ -64,8 +64,21 @@ pub fn load(g: &ElementGeometry, j: f64) -> Local {
     f
 }
 
-/// Element residual R_a and, if `with_tangent`, tangent T_ab at reaction coefficients `a`
-/// (Wb/m), background `b0` (T), current density `j` (A/m²) and material `mat`.
+/// Which matrix to build with the residual.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Tangent {
+    /// The residual only.
+    None,
+    /// The consistent tangent ν I + (ν_d − ν) b̂b̂ᵀ (Newton).
+    Newton,
+    /// The secant operator ν I (a fixed-point step): stiffer than the tangent where the law
+    /// is about to stiffen, so a safe direction where Newton's model fails (see
+    /// [`crate::nonlinear`]).
+    Secant,
+}
+
+/// Element residual R_a and, unless `tangent` is [`Tangent::None`], the matrix T_ab at reaction
+/// coefficients `a` (Wb/m), background `b0` (T), current density `j` (A/m²) and material `mat`.
 #[inline]
 pub fn residual_and_tangent(
     g: &ElementGeometry,
@@ -73,8 +86,9 @@ pub fn residual_and_tangent(
     b0: f64,
     j: f64,
     mat: &Material,
-    with_tangent: bool,
+    tangent: Tangent,
 ) -> (Local, LocalMatrix) {
+    let with_tangent = tangent != Tangent::None;
     let n = g.nodes;
     let nu0 = 1.0 / crate::MU0;
     let mut r = [0.0; MAX_NODES];
@@ -102,7 +116,11 @@ pub fn residual_and_tangent(
             r[k] += (hx[0] * c[k][0] + hx[1] * c[k][1] - j * phi[k]) * q.dv;
         }
         if with_tangent {
-            let extra = if bm > 0.0 { nu_d - nu } else { 0.0 };
+            let extra = if bm > 0.0 && tangent == Tangent::Newton {
+                nu_d - nu
+            } else {
+                0.0
+            };
             let bh = if bm > 0.0 {
                 [bx[0] / bm, bx[1] / bm]
             } else {
@@ -177,14 +195,14 @@ mod tests {
                 a[k] = 0.4 * g.points[k][0] * (1.0 + 0.3 * k as f64);
                 d[k] = 0.01 * (1.0 + ((k * 7) % 5) as f64);
             }
-            let (_, t) = residual_and_tangent(g, &a, 0.05, 1e5, &mat, true);
+            let (_, t) = residual_and_tangent(g, &a, 0.05, 1e5, &mat, Tangent::Newton);
             let eps = 1e-6;
             let shifted = |s: f64| {
                 let mut x = a;
                 for k in 0..n {
                     x[k] += s * d[k];
                 }
-                residual_and_tangent(g, &x, 0.05, 1e5, &mat, false).0
+                residual_and_tangent(g, &x, 0.05, 1e5, &mat, Tangent::None).0
             };
             let (rp, rm) = (shifted(eps), shifted(-eps));
             for k in 0..n {

@@ -70,7 +70,7 @@ pub struct RampResult {
 pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> {
     let i_case = case.windings.first().map_or(0.0, |w| w.current);
     let d = discretise(case)?;
-    let nodes = d.mesh.nodes.len();
+    let nodes = d.problem.mesh.nodes.len();
     let model = Model::new(d.problem)?;
     let op = if model.is_linear() {
         Some(model.linear_operator()?)
