@@ -409,7 +409,16 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             })?;
             let st = d.mesh.stats();
             println!("{}", case.title);
-            println!("nodes          {}", st.nodes);
+            let fe_nodes = d.problem.mesh.nodes.len();
+            if d.problem.mesh.order() == 2 {
+                println!(
+                    "nodes          {fe_nodes} (second order: {} corners, {} mid-edge)",
+                    st.nodes,
+                    fe_nodes - st.nodes
+                );
+            } else {
+                println!("nodes          {fe_nodes} (first order)");
+            }
             println!("triangles      {}", st.triangles);
             for (tag, n) in &st.triangles_per_tag {
                 let name = match *tag {
