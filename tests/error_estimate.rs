@@ -48,6 +48,7 @@ fn check_mode(
         let est = l.estimated_relative_error.unwrap();
         let truth = (l.dipole_moment_Am2 - exact).abs() / exact.abs();
         let eff = truth / est;
+        eprintln!("{name}: {} unknowns, effectivity {eff:.2}", l.unknowns);
         assert!(
             (1.0 / 3.0..=3.0).contains(&eff),
             "{name}: {} unknowns, true {truth:.3e} estimate {est:.3e} (effectivity {eff:.2})",
