@@ -34,6 +34,8 @@ pub struct Report {
     pub converged: bool,
     /// Newton iterations (0 for a linear solve).
     pub newton_iterations: usize,
+    /// Newton iterations of the first-order solve a second-order one started from (0 if none).
+    pub newton_start_iterations: usize,
     /// Relative residual before each Newton iteration and at the end (saturating cores only).
     pub residual_history: Option<Vec<f64>>,
     /// Incremental inductance matrix, H (row i, column k: dΨ_i/dI_k).
@@ -359,8 +361,16 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     if let Some(h) = &r.residual_history {
         let _ = writeln!(
             s,
-            "Solver    Newton converged in {} iterations; relative residuals {}",
+            "Solver    Newton converged in {} iterations{}; relative residuals {}",
             r.newton_iterations,
+            if r.newton_start_iterations > 0 {
+                format!(
+                    " (from a first-order start of {} iterations)",
+                    r.newton_start_iterations
+                )
+            } else {
+                String::new()
+            },
             h.iter()
                 .map(|v| format!("{v:.1e}"))
                 .collect::<Vec<_>>()
