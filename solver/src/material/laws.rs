@@ -199,6 +199,20 @@ impl SaturationLaw {
                 // knee, the vacuum line shifted by Js above it.
                 let js = self.saturation_b().unwrap_or(0.0);
                 let guess = (b * self.nu(0.0)).max((b - js) / MU0);
+                if let SaturationLaw::Knee { js, mu_i, mu_max } = *self {
+                    // The shape constants once per inversion, not once per evaluation: the
+                    // inversion runs at every quadrature point of every Newton pass.
+                    let (a, hk) = knee_shape(js, mu_i, mu_max);
+                    let f = |h: f64| {
+                        let x = h / hk;
+                        let q = 1.0 + a * x + x * x;
+                        (
+                            MU0 * h + js * (a * x + x * x) / q,
+                            MU0 + js * (a + 2.0 * x) / (q * q * hk),
+                        )
+                    };
+                    return solve_increasing(f, b, 0.0, b / MU0, guess);
+                }
                 solve_increasing(|h| self.b_and_slope(h), b, 0.0, b / MU0, guess)
             }
         }
