@@ -6,6 +6,36 @@ use crate::mesh::Point;
 use crate::solve::Model;
 use crate::{SolverError, MU0};
 
+/// Barycentric tolerance for a point on an element's boundary.
+const INSIDE: f64 = 1e-9;
+
+/// The element holding `p` and its reference (barycentric) coordinates. First order: the
+/// straight triangle. Second order: the curved element, found by inverting the map of the
+/// straight triangle's candidate and, where the point lies in the bulge of a curved edge
+/// (inside a neighbour's curved element but not its straight triangle, or outside every
+/// straight triangle), of the elements near it.
+fn locate_curved(model: &Model, locator: &Locator, p: Point) -> Option<(usize, [f64; 3])> {
+    let mesh = model.mesh();
+    let found = locator.find(mesh, p);
+    if mesh.order() == 1 {
+        return found;
+    }
+    let inside = |e: usize, l0: [f64; 3]| {
+        let l = model.geometry()[e].invert(p, l0);
+        l.iter().all(|&x| x >= -INSIDE).then_some((e, l))
+    };
+    if let Some((e, l0)) = found {
+        if let Some(hit) = inside(e, l0) {
+            return Some(hit);
+        }
+    }
+    locator
+        .near(p)
+        .into_iter()
+        .find_map(|e| inside(e, crate::locate::barycentric(mesh.corners(e), p)))
+        .or(found)
+}
+
 /// A solved field: A_φ = Σ a_i φ_i + B0 r/2, the discrete reaction field plus the exact
 /// uniform background (reduced-potential split: the background is never discretised).
 #[derive(Debug, Clone, PartialEq)]
@@ -82,11 +112,9 @@ impl Solution {
         locator: &Locator,
         p: Point,
     ) -> Result<(usize, f64, [f64; 2]), SolverError> {
-        let (e, l) = locator
-            .find(model.mesh(), p)
+        let (e, l) = locate_curved(model, locator, p)
             .ok_or(SolverError::OutsideMesh { r: p[0], z: p[1] })?;
         let g: &ElementGeometry = &model.geometry()[e];
-        let l = g.invert(p, l);
         let av = self.element_values(model, e);
         if p[0] > 0.0 {
             let a = g.a_at(&av, l, p[0]);

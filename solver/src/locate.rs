@@ -106,6 +106,37 @@ impl Locator {
         out
     }
 
+    /// Triangles listed in the bucket of `p` and its eight neighbours (each once, in order):
+    /// the candidates for a point near a curved edge, which the straight triangles miss.
+    pub fn near(&self, p: Point) -> Vec<usize> {
+        let mut out = Vec::new();
+        let mut idx = [0i64; 2];
+        for d in 0..2 {
+            let f = (p[d] - self.origin[d]) / self.cell[d];
+            if !f.is_finite() {
+                return out;
+            }
+            idx[d] = f.floor() as i64;
+        }
+        for dy in -1..=1 {
+            for dx in -1..=1 {
+                let (ix, iy) = (idx[0] + dx, idx[1] + dy);
+                if ix < 0 || iy < 0 || ix >= self.dims[0] as i64 || iy >= self.dims[1] as i64 {
+                    continue;
+                }
+                let k = iy as usize * self.dims[0] + ix as usize;
+                out.extend(
+                    self.items[self.start[k] as usize..self.start[k + 1] as usize]
+                        .iter()
+                        .map(|&t| t as usize),
+                );
+            }
+        }
+        out.sort_unstable();
+        out.dedup();
+        out
+    }
+
     /// The triangle that should evaluate the field at `p`: on the axis, one with an axis edge
     /// (where A/r → ∂A/∂r is exact for first-order elements); elsewhere the first containing one.
     pub fn find(&self, mesh: &FeMesh, p: Point) -> Option<(usize, [f64; 3])> {

@@ -126,6 +126,10 @@ pub enum Stop {
     NodeCap,
     /// The time cap.
     TimeCap,
+    /// The moment is exactly zero (no source drives the field): a relative error is undefined.
+    ZeroMoment,
+    /// Adaptive refinement left the mesh unchanged (nothing to mark).
+    MeshUnchanged,
 }
 
 /// Refines `case` from its own mesh until the estimated relative dipole error is at most
@@ -201,6 +205,10 @@ pub fn run_to_tolerance(
             size,
             newton_iterations: r.newton_iterations,
         });
+        let unchanged = levels.len() >= 2 && {
+            let l = &levels[levels.len() - 2];
+            l.nodes == r.nodes && l.unknowns == r.unknowns
+        };
         let reached = estimate.is_some_and(|e| e <= tolerance);
         let next_too_big = 2.2 * r.nodes as f64 > max_nodes as f64;
         let elapsed = clock.elapsed().as_secs_f64();
@@ -208,8 +216,12 @@ pub fn run_to_tolerance(
         let next_too_late = caps
             .max_seconds
             .is_some_and(|t| elapsed + 2.5 * last_level > t);
-        let stop = if reached {
+        let stop = if m == 0.0 {
+            Some(Stop::ZeroMoment)
+        } else if reached {
             Some(Stop::Tolerance)
+        } else if unchanged && refine == Refine::Adaptive {
+            Some(Stop::MeshUnchanged)
         } else if next_too_big {
             Some(Stop::NodeCap)
         } else if next_too_late {

@@ -81,7 +81,23 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
     spec.grading = case.mesh.grading.unwrap_or(0.15 / f);
     spec.min_angle_deg = case.mesh.min_angle_deg;
     spec.arc_tolerance = case.mesh.effective_arc_tolerance();
-    spec.max_nodes = case.mesh.max_nodes;
+    if let (2, None, Some(core)) = (case.mesh.order, case.mesh.arc_tolerance, &case.core) {
+        if let CoreShape::Spheroid { .. } = core.shape {
+            // The loose second-order polygon must still follow a slender tip, whose curvature
+            // radius is r²/hl: a sagitta above half of it relative to r leaves a polygon
+            // corner sharper than the minimum angle (axis ratio 500: 9° with 1e-2, 24.7° with
+            // 1e-3).
+            let r_over_hl = core.shape.radius() / core.shape.half_length();
+            spec.arc_tolerance = spec.arc_tolerance.min(0.5 * r_over_hl);
+        }
+    }
+    // The cap counts every node; a second-order mesh has about four nodes per corner node,
+    // so the mesher (which counts corners) stops early and the elevated mesh is checked too.
+    spec.max_nodes = if case.mesh.order == 2 {
+        (case.mesh.max_nodes / 3).max(100)
+    } else {
+        case.mesh.max_nodes
+    };
     spec.far_size = case.mesh.far_size.unwrap_or(ro / (6.0 * f));
     spec.interior_arcs = vec![ball_radius(case)];
 

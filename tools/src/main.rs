@@ -142,6 +142,34 @@ fn input_error(message: String) -> Failure {
     Failure { code: 2, message }
 }
 
+/// Writes a line to standard output; a closed pipe (`axicore … | head`) ends the program
+/// quietly instead of panicking, as the reader wants no more.
+macro_rules! emitln {
+    ($($t:tt)*) => {
+        emit_text(format!($($t)*) + "\n")
+    };
+}
+
+/// As [`emitln!`], without the newline.
+#[allow(unused_macros)]
+macro_rules! emit {
+    ($($t:tt)*) => {
+        emit_text(format!($($t)*))
+    };
+}
+
+fn emit_text(text: String) {
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    if let Err(e) = out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
+        if e.kind() == std::io::ErrorKind::BrokenPipe {
+            std::process::exit(0);
+        }
+        eprintln!("axicore: error: cannot write the output: {e}");
+        std::process::exit(1);
+    }
+}
+
 fn main() -> ExitCode {
     let cli = Cli::parse();
     match dispatch(cli) {
@@ -224,14 +252,21 @@ fn run_failure(e: RunError, file: &str) -> Failure {
 
 fn materials(name: Option<String>, csv: bool) -> Result<(), Failure> {
     let Some(name) = name else {
-        println!(
+        emitln!(
             "{:<18} {:>6} {:>9} {:>9}  source",
-            "name", "Bs/T", "μ_initial", "μ_max"
+            "name",
+            "Bs/T",
+            "μ_initial",
+            "μ_max"
         );
         for m in builtin_materials() {
-            println!(
+            emitln!(
                 "{:<18} {:>6} {:>9} {:>9}  {}",
-                m.name, m.saturation_t, m.mu_initial, m.mu_max, m.note
+                m.name,
+                m.saturation_t,
+                m.mu_initial,
+                m.mu_max,
+                m.note
             );
         }
         return Ok(());
@@ -252,12 +287,12 @@ fn materials(name: Option<String>, csv: bool) -> Result<(), Failure> {
         }))
         .collect();
     if csv {
-        print!("{}", axicore::bh_csv::write(&points));
+        emit!("{}", axicore::bh_csv::write(&points));
     } else {
-        println!("{} — {}", m.name, m.note);
-        println!("{:>14} {:>10} {:>12}", "H/(A/m)", "B/T", "μr = B/μ0H");
+        emitln!("{} — {}", m.name, m.note);
+        emitln!("{:>14} {:>10} {:>12}", "H/(A/m)", "B/T", "μr = B/μ0H");
         for p in points.iter().skip(1).step_by(6) {
-            println!(
+            emitln!(
                 "{:>14.4e} {:>10.5} {:>12.1}",
                 p[0],
                 p[1],
@@ -269,15 +304,24 @@ fn materials(name: Option<String>, csv: bool) -> Result<(), Failure> {
 }
 
 fn history_text(c: &History, tolerance: f64) -> String {
-    let mut s = format!(
+    let mut s = if c.stop == accuracy::Stop::ZeroMoment {
+        "Error control: the moment is exactly zero (nothing drives the field); a relative error \
+         is undefined, refinement stopped\n"
+            .to_string()
+    } else {
+        format!(
         "Error control: estimated relative error of the dipole {:.2e} ({} the tolerance {tolerance:.1e})\n",
         c.estimated_relative_error,
         match c.stop {
             accuracy::Stop::Tolerance => "within",
             accuracy::Stop::NodeCap => "NOT within — the node cap stopped refinement;",
             accuracy::Stop::TimeCap => "NOT within — the time cap stopped refinement;",
+            accuracy::Stop::ZeroMoment => "",
+            accuracy::Stop::MeshUnchanged =>
+                "NOT within — adaptive refinement left the mesh unchanged;",
         }
-    );
+        )
+    };
     s.push_str("  level      nodes   unknowns     dipole/A·m²   est. rel. error  order  Newton\n");
     for (k, l) in c.levels.iter().enumerate() {
         s.push_str(&format!(
@@ -376,12 +420,12 @@ fn ramp_command(
         message: m,
     })?;
     if json {
-        println!(
+        emitln!(
             "{}",
             serde_json::to_string_pretty(&result).unwrap_or_default()
         );
     } else {
-        print!("{}", ramp::summary(&result));
+        emit!("{}", ramp::summary(&result));
     }
     Ok(())
 }
@@ -389,7 +433,7 @@ fn ramp_command(
 fn dispatch(cli: Cli) -> Result<(), Failure> {
     match cli.command {
         Command::Example => {
-            print!("{EXAMPLE_CASE}");
+            emit!("{EXAMPLE_CASE}");
             Ok(())
         }
         Command::Materials { name, csv } => materials(name, csv),
@@ -407,29 +451,31 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                 code: 1,
                 message: e.to_string(),
             })?;
-            let st = d.mesh.stats();
-            println!("{}", case.title);
+            let mut st = d.mesh.stats();
+            (st.min_angle_deg, st.max_aspect_ratio) =
+                axicore::pipeline::corner_quality(&d.problem.mesh);
+            emitln!("{}", case.title);
             let fe_nodes = d.problem.mesh.nodes.len();
             if d.problem.mesh.order() == 2 {
-                println!(
+                emitln!(
                     "nodes          {fe_nodes} (second order: {} corners, {} mid-edge)",
                     st.nodes,
                     fe_nodes - st.nodes
                 );
             } else {
-                println!("nodes          {fe_nodes} (first order)");
+                emitln!("nodes          {fe_nodes} (first order)");
             }
-            println!("triangles      {}", st.triangles);
+            emitln!("triangles      {}", st.triangles);
             for (tag, n) in &st.triangles_per_tag {
                 let name = match *tag {
                     0 => "air".to_string(),
                     1 => "core".to_string(),
                     k => format!("winding {}", k - 1),
                 };
-                println!("  region {tag} ({name}): {n}");
+                emitln!("  region {tag} ({name}): {n}");
             }
-            println!("smallest angle {:.2}°", st.min_angle_deg);
-            println!("worst aspect   {:.3}", st.max_aspect_ratio);
+            emitln!("smallest angle {:.2}°", st.min_angle_deg);
+            emitln!("worst aspect   {:.3}", st.max_aspect_ratio);
             if let Some(path) = vtk {
                 let region: Vec<i32> = d.problem.mesh.tags.iter().map(|&t| t as i32).collect();
                 let bytes =
@@ -557,12 +603,12 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                             message: e.to_string(),
                         })?;
                 }
-                println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+                emitln!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
             } else {
                 if let Some(c) = &controlled {
-                    print!("{}", history_text(c, tolerance.unwrap_or(0.0)));
+                    emit!("{}", history_text(c, tolerance.unwrap_or(0.0)));
                 }
-                print!("{}", summary(&outcome.report, timings));
+                emit!("{}", summary(&outcome.report, timings));
             }
             Ok(())
         }

@@ -106,7 +106,11 @@ pub fn discretise_refined(
             points: refine_at.to_vec(),
         });
     }
-    let mesh = build_mesh(&spec)?;
+    let limit = case.mesh.max_nodes;
+    let mesh = build_mesh(&spec).map_err(|e| match e {
+        MeshError::TooManyNodes { reached, .. } => MeshError::TooManyNodes { limit, reached },
+        other => other,
+    })?;
     let mut regions = vec![RegionProps::air(); 2 + case.windings.len()];
     if let Some(core) = &case.core {
         regions[CORE_TAG as usize].material = core.material.clone();
@@ -123,7 +127,7 @@ pub fn discretise_refined(
     };
     let mut kinds = mesh.node_kinds.clone();
     let fe_mesh = if case.mesh.order == 2 {
-        let (fe, added) = quadratic::elevate(&first, &outlines(case, ro));
+        let (fe, added) = quadratic::elevate(&first, &outlines(case, ro), case.mesh.min_angle_deg);
         for (k, m) in added.iter().enumerate() {
             let parent = m.parents.map(|p| mesh.node_kinds[p as usize]);
             let kind = if fe.nodes[mesh.nodes.len() + k][0] == 0.0 {
@@ -134,6 +138,12 @@ pub fn discretise_refined(
                 NodeKind::Interior
             };
             kinds.push(kind);
+        }
+        if fe.nodes.len() > limit {
+            return Err(RunError::Mesh(MeshError::TooManyNodes {
+                limit,
+                reached: fe.nodes.len(),
+            }));
         }
         fe
     } else {
@@ -193,6 +203,21 @@ fn outlines(case: &Case, ro: f64) -> Vec<quadratic::Outline> {
     out
 }
 
+/// Smallest angle (degrees) and largest aspect ratio of the straight triangles through the
+/// corners of `mesh` (for second order: after the corners moved onto curved outlines).
+pub fn corner_quality(mesh: &FeMesh) -> (f64, f64) {
+    let mut min_angle = f64::INFINITY;
+    let mut max_aspect: f64 = 0.0;
+    for t in 0..mesh.triangles.len() {
+        let [a, b, c] = mesh.corners(t);
+        for angle in axicore_mesher::triangle_angles(a, b, c) {
+            min_angle = min_angle.min(angle);
+        }
+        max_aspect = max_aspect.max(axicore_mesher::aspect_ratio(a, b, c));
+    }
+    (min_angle.to_degrees(), max_aspect)
+}
+
 /// Whether `p` lies within two element sizes of the axis (size: longest edge of the element
 /// holding it).
 fn near_axis(model: &Model, locator: &Locator, p: [f64; 2]) -> bool {
@@ -223,7 +248,8 @@ pub fn run_from(
 ) -> Result<Outcome, RunError> {
     let t0 = Instant::now();
     let Discretised { mesh, problem } = discretise_refined(case, &opts.refine_at)?;
-    let stats = mesh.stats();
+    let mut stats = mesh.stats();
+    (stats.min_angle_deg, stats.max_aspect_ratio) = corner_quality(&problem.mesh);
     let t_mesh = t0.elapsed().as_secs_f64();
 
     let t1 = Instant::now();

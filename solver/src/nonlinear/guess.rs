@@ -112,7 +112,10 @@ impl Model {
 
     /// [`Self::initial_guess`], and whether the linear solve's field reaches the saturation
     /// flux density of its law somewhere (the case is past the knee).
-    pub(super) fn initial_guess_checked(&self, exc: Excitation<'_>) -> Result<(Vec<f64>, bool), SolverError> {
+    pub(super) fn initial_guess_checked(
+        &self,
+        exc: Excitation<'_>,
+    ) -> Result<(Vec<f64>, bool), SolverError> {
         let initial: Vec<Vec<f64>> = self.geom.iter().map(|g| vec![0.0; g.qp.len()]).collect();
         let guess = self.secant_solve(exc, &initial)?;
         if self.is_linear() {
@@ -141,7 +144,11 @@ impl Model {
     }
 
     /// The linear solve with reluctivity `nu[e][q]` per quadrature point (0 stands for ν(0)).
-    pub(super) fn secant_solve(&self, exc: Excitation<'_>, nu: &[Vec<f64>]) -> Result<Vec<f64>, SolverError> {
+    pub(super) fn secant_solve(
+        &self,
+        exc: Excitation<'_>,
+        nu: &[Vec<f64>],
+    ) -> Result<Vec<f64>, SolverError> {
         let nu = |e: usize, q: usize| {
             if nu[e][q] > 0.0 {
                 nu[e][q]
@@ -168,5 +175,4 @@ impl Model {
         }
         Ok(self.with_fixed(&a, exc.a_fixed))
     }
-
 }

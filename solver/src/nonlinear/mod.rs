@@ -228,7 +228,6 @@ impl Model {
             .sum::<f64>()
             .sqrt()
     }
-
 }
 
 pub(super) fn dot(x: &[f64], y: &[f64]) -> f64 {

@@ -23,7 +23,6 @@ const LINE_SEARCH_STEPS: usize = 30;
 /// step length fell to 1e-4 and the iteration stalled for 40 iterations.
 const SHORT_STEP: f64 = 0.1;
 
-
 impl Model {
     /// Newton's iteration from the coefficients `a` (Dirichlet values imposed).
     pub(super) fn newton_from(

@@ -92,7 +92,12 @@ impl Model {
 
     /// Residual over the free unknowns and, unless `tangent` is [`Tangent::None`], the
     /// matrix's values on the pattern (empty otherwise), from one pass over the elements.
-    pub(super) fn assemble(&self, a: &[f64], exc: Excitation<'_>, tangent: Tangent) -> (Vec<f64>, Vec<f64>) {
+    pub(super) fn assemble(
+        &self,
+        a: &[f64],
+        exc: Excitation<'_>,
+        tangent: Tangent,
+    ) -> (Vec<f64>, Vec<f64>) {
         let with_tangent = tangent != Tangent::None;
         let terms = self.element_terms(a, exc, tangent);
         let mut out = vec![0.0; self.dofs.n_free];
@@ -112,11 +117,14 @@ impl Model {
     }
 
     /// Assembles and factorises the tangent at `a`.
-    pub(super) fn tangent(&self, a: &[f64], exc: Excitation<'_>) -> Result<SpdFactor<'_>, SolverError> {
+    pub(super) fn tangent(
+        &self,
+        a: &[f64],
+        exc: Excitation<'_>,
+    ) -> Result<SpdFactor<'_>, SolverError> {
         self.symbolic
             .factorize(&self.assemble(a, exc, Tangent::Newton).1)
     }
-
 }
 
 /// The constant part of a linear element in the Newton residual.
@@ -129,4 +137,3 @@ pub(crate) struct LinearElement {
     /// ν − ν0.
     dnu: f64,
 }
-
