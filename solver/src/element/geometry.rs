@@ -49,6 +49,17 @@ pub struct ElementGeometry {
     pub points: [Point; MAX_NODES],
 }
 
+/// r_i of each node flagged in `flux` (its flux-basis radius), 0 for plain nodes.
+fn flux_radii(p: &[Point], flux: &[bool]) -> [f64; MAX_NODES] {
+    let mut out = [0.0; MAX_NODES];
+    for ((o, q), &f) in out.iter_mut().zip(p).zip(flux) {
+        if f {
+            *o = q[0];
+        }
+    }
+    out
+}
+
 fn straight_gradients(p: [Point; 3]) -> (f64, [f64; 3], [f64; 3]) {
     let twice_area =
         (p[1][0] - p[0][0]) * (p[2][1] - p[0][1]) - (p[2][0] - p[0][0]) * (p[1][1] - p[0][1]);
@@ -94,12 +105,7 @@ impl ElementGeometry {
                 }
             })
             .collect();
-        let mut flux_radius = [0.0; MAX_NODES];
-        for i in 0..3 {
-            if flux[i] {
-                flux_radius[i] = p[i][0];
-            }
-        }
+        let flux_radius = flux_radii(&p, &flux);
         let mut points = [[0.0; 2]; MAX_NODES];
         points[..3].copy_from_slice(&p);
         Self {
@@ -146,26 +152,13 @@ impl ElementGeometry {
                 jinv,
             });
         }
-        const NODES: [[f64; 3]; 6] = [
-            [1.0, 0.0, 0.0],
-            [0.0, 1.0, 0.0],
-            [0.0, 0.0, 1.0],
-            [0.5, 0.5, 0.0],
-            [0.0, 0.5, 0.5],
-            [0.5, 0.0, 0.5],
-        ];
-        if NODES
+        if tri6::NODES
             .iter()
             .any(|&l| tri6::inverse_jacobian(&p, l).1 <= 0.0)
         {
             return None;
         }
-        let mut flux_radius = [0.0; MAX_NODES];
-        for i in 0..6 {
-            if flux[i] {
-                flux_radius[i] = p[i][0];
-            }
-        }
+        let flux_radius = flux_radii(&p, &flux);
         Some(Self {
             nodes: 6,
             area,

@@ -20,6 +20,16 @@
 //! potential beside a slender core exactly, where plain quadratic A left the built-in search
 //! coil 1 % low. Magnetic elements use the plain basis.
 
+/// Barycentric coordinates of the six nodes (corners, then mid-edge nodes).
+pub const NODES: [[f64; 3]; 6] = [
+    [1.0, 0.0, 0.0],
+    [0.0, 1.0, 0.0],
+    [0.0, 0.0, 1.0],
+    [0.5, 0.5, 0.0],
+    [0.0, 0.5, 0.5],
+    [0.5, 0.0, 0.5],
+];
+
 /// Shape function values N_i at barycentric coordinates `l`.
 #[inline]
 pub fn values(l: [f64; 3]) -> [f64; 6] {
@@ -92,15 +102,6 @@ pub fn physical_gradient(g: [f64; 2], jinv: &[[f64; 2]; 2]) -> [f64; 2] {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    const NODES: [[f64; 3]; 6] = [
-        [1.0, 0.0, 0.0],
-        [0.0, 1.0, 0.0],
-        [0.0, 0.0, 1.0],
-        [0.5, 0.5, 0.0],
-        [0.0, 0.5, 0.5],
-        [0.5, 0.0, 0.5],
-    ];
 
     #[test]
     fn shape_functions_are_nodal_and_a_partition_of_unity() {
