@@ -35,7 +35,7 @@ pub struct Model {
 /// The exact open boundary's operator with its place in the pattern.
 #[derive(Debug)]
 pub(crate) struct Exterior {
-    op: ExteriorOperator,
+    pub(crate) op: ExteriorOperator,
     /// Equation numbers of `op.nodes`.
     free: Vec<usize>,
     /// Pattern slot of each (k, l) pair of surface nodes, row-major ([`NO_SLOT`] above the

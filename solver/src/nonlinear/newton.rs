@@ -23,6 +23,9 @@ const LINE_SEARCH_STEPS: usize = 30;
 /// step length fell to 1e-4 and the iteration stalled for 40 iterations.
 const SHORT_STEP: f64 = 0.1;
 
+/// The local solve stops once its residual is this fraction of the global tolerance.
+const LOCAL_FLOOR: f64 = 0.1;
+
 impl Model {
     /// Newton's iteration from the coefficients `a` (Dirichlet values imposed).
     pub(super) fn newton_from(
@@ -127,6 +130,14 @@ impl Model {
             };
             r = r_new;
             tangent = t_new;
+            // Nonlinear elimination: settle the knee elements locally before the next global
+            // step (see `local`); the residual and tangent there are then recomputed.
+            let local = self.relax_knee(&mut a, exc, LOCAL_FLOOR * settings.residual_tol * scale);
+            if local > 0 {
+                report.local_iterations += local;
+                r = self.residual(&a, exc);
+                tangent = None;
+            }
             previous = Some(factor);
             secant_next = alpha < SHORT_STEP;
 
@@ -161,45 +172,55 @@ impl Model {
             // Full step: it lowers the residual, or the energy still decreases at α = 1.
             return (1.0, r1, Some(t1));
         }
-        // g(0) = −δᵀTδ < 0 < g(1) and g increases: Illinois regula falsi for its root,
-        // safeguarded by bisection when the secant point crowds an end of the bracket (a law
-        // that stiffens abruptly makes g(1) ≫ |g(0)|, and plain false position then creeps
-        // up from α ≈ 0). The root is accepted when |g| is small against |g(0)|: against the
-        // larger bracket value, a first trial at α ≈ |g(0)|/g(1) passed at once and the
-        // iteration stalled (built-in rod, knee law, second order, 1 A).
+        // g(0) = −δᵀTδ < 0 < g(1) and g increases: its root minimises the energy on the line.
         let g0 = dot(r0, delta);
-        let (mut lo, mut glo) = (0.0, g0);
-        let (mut hi, mut ghi) = (1.0, g1);
-        let mut best = (1.0, r1);
-        let mut side = 0;
-        for _ in 0..LINE_SEARCH_STEPS {
-            let mut alpha = (lo * ghi - hi * glo) / (ghi - glo);
-            let width = hi - lo;
-            if !(alpha > lo + 0.01 * width && alpha < hi - 0.01 * width) {
-                alpha = 0.5 * (lo + hi);
-            }
-            let r = at(alpha);
-            let g = dot(&r, delta);
-            best = (alpha, r);
-            if g.abs() <= LINE_SEARCH_TOL * g0.abs() || hi - lo < 1e-6 {
-                break;
-            }
-            if g < 0.0 {
-                lo = alpha;
-                glo = g;
-                if side == -1 {
-                    ghi *= 0.5;
-                }
-                side = -1;
-            } else {
-                hi = alpha;
-                ghi = g;
-                if side == 1 {
-                    glo *= 0.5;
-                }
-                side = 1;
-            }
-        }
-        (best.0, best.1, None)
+        let mut last = r1;
+        let alpha = root_of_slope(g0, g1, |alpha| {
+            last = at(alpha);
+            dot(&last, delta)
+        });
+        (alpha, last, None)
     }
+}
+
+/// The root in (0, 1) of an increasing slope g(α) = R(a + α δ)·δ with g(0) = `g0` < 0 <
+/// `g1` = g(1), evaluated by `g`, whose last evaluation is at the returned α.
+///
+/// Illinois regula falsi, safeguarded by bisection when the secant point crowds an end of
+/// the bracket (a law that stiffens abruptly makes g(1) ≫ |g(0)|, and plain false position
+/// then creeps up from α ≈ 0). The root is accepted when |g| is small against |g(0)|: against
+/// the larger bracket value, a first trial at α ≈ |g(0)|/g(1) passed at once and the
+/// iteration stalled (built-in rod, knee law, second order, 1 A).
+pub(super) fn root_of_slope(g0: f64, g1: f64, mut g: impl FnMut(f64) -> f64) -> f64 {
+    let (mut lo, mut glo) = (0.0, g0);
+    let (mut hi, mut ghi) = (1.0, g1);
+    let mut alpha = 1.0;
+    let mut side = 0;
+    for _ in 0..LINE_SEARCH_STEPS {
+        alpha = (lo * ghi - hi * glo) / (ghi - glo);
+        let width = hi - lo;
+        if !(alpha > lo + 0.01 * width && alpha < hi - 0.01 * width) {
+            alpha = 0.5 * (lo + hi);
+        }
+        let ga = g(alpha);
+        if ga.abs() <= LINE_SEARCH_TOL * g0.abs() || hi - lo < 1e-6 {
+            break;
+        }
+        if ga < 0.0 {
+            lo = alpha;
+            glo = ga;
+            if side == -1 {
+                ghi *= 0.5;
+            }
+            side = -1;
+        } else {
+            hi = alpha;
+            ghi = ga;
+            if side == 1 {
+                glo *= 0.5;
+            }
+            side = 1;
+        }
+    }
+    alpha
 }

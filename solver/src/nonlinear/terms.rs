@@ -18,41 +18,50 @@ impl Model {
         exc: Excitation<'_>,
         tangent: Tangent,
     ) -> Vec<(Local, LocalMatrix)> {
-        let fixed = self.linear_parts();
         self.geom
             .par_iter()
             .enumerate()
-            .map(|(e, g)| {
-                let mut ae = [0.0; MAX_NODES];
-                for (k, &v) in self.mesh.element_nodes(e).iter().enumerate() {
-                    ae[k] = a[v as usize];
-                }
-                match &fixed[e] {
-                    // Linear elements (most of the air): R = K a + (ν − ν0) B0 ∫B_z(φ) − f,
-                    // T = K, with K precomputed — the same integrals, evaluated once.
-                    Some(lin) => {
-                        let f = weak_form::load(g, exc.currents[e]);
-                        let mut r = [0.0; MAX_NODES];
-                        for k in 0..g.nodes {
-                            let mut s = 0.0;
-                            for l in 0..g.nodes {
-                                s += lin.k[k][l] * ae[l];
-                            }
-                            r[k] = s + lin.dnu * exc.b0 * lin.curl_z[k] - f[k];
-                        }
-                        (r, lin.k)
-                    }
-                    None => weak_form::residual_and_tangent(
-                        g,
-                        &ae,
-                        exc.b0,
-                        exc.currents[e],
-                        self.material(e),
-                        tangent,
-                    ),
-                }
-            })
+            .map(|(e, _)| self.element_term(e, a, exc, tangent))
             .collect()
+    }
+
+    /// Residual (and tangent) of element `e` at the coefficients `a`.
+    pub(super) fn element_term(
+        &self,
+        e: usize,
+        a: &[f64],
+        exc: Excitation<'_>,
+        tangent: Tangent,
+    ) -> (Local, LocalMatrix) {
+        let g = &self.geom[e];
+        let mut ae = [0.0; MAX_NODES];
+        for (k, &v) in self.mesh.element_nodes(e).iter().enumerate() {
+            ae[k] = a[v as usize];
+        }
+        match &self.linear_parts()[e] {
+            // Linear elements (most of the air): R = K a + (ν − ν0) B0 ∫B_z(φ) − f,
+            // T = K, with K precomputed — the same integrals, evaluated once.
+            Some(lin) => {
+                let f = weak_form::load(g, exc.currents[e]);
+                let mut r = [0.0; MAX_NODES];
+                for k in 0..g.nodes {
+                    let mut s = 0.0;
+                    for l in 0..g.nodes {
+                        s += lin.k[k][l] * ae[l];
+                    }
+                    r[k] = s + lin.dnu * exc.b0 * lin.curl_z[k] - f[k];
+                }
+                (r, lin.k)
+            }
+            None => weak_form::residual_and_tangent(
+                g,
+                &ae,
+                exc.b0,
+                exc.currents[e],
+                self.material(e),
+                tangent,
+            ),
+        }
     }
 
     /// Per element, the constant stiffness of a linear material (None for saturating ones),
