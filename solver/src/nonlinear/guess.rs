@@ -34,9 +34,37 @@ impl Model {
     /// 34, 38, 35); see the README for the figures with this start.
     pub(super) fn first_order_guess(
         &self,
+        first: &Model,
         exc: Excitation<'_>,
         settings: &NewtonSettings,
     ) -> Result<(Vec<f64>, usize), SolverError> {
+        let nv = first.mesh.nodes.len();
+        let sub = Excitation {
+            currents: exc.currents,
+            a_fixed: &exc.a_fixed[..nv],
+            b0: exc.b0,
+        };
+        let (sol, first_report) = first.solve_nonlinear(sub, None, settings)?;
+        let mut a = vec![0.0; self.mesh.nodes.len()];
+        a[..nv].copy_from_slice(&sol.a);
+        // Mid-edge nodes: the first-order field at the edge's midpoint.
+        for (t, mid) in self.mesh.mid.iter().enumerate() {
+            let g = &first.geom[t];
+            let av = sol.element_values(first, t);
+            for (k, &n) in mid.iter().enumerate() {
+                let mut l = [0.0; 3];
+                l[k] = 0.5;
+                l[(k + 1) % 3] = 0.5;
+                let r = g.position(l)[0];
+                a[n as usize] = if r > 0.0 { g.a_at(&av, l, r) } else { 0.0 };
+            }
+        }
+        Ok((self.with_fixed(&a, exc.a_fixed), first_report.iterations))
+    }
+
+    /// The first-order model on this second-order model's corners (same regions, conditions
+    /// and open boundary).
+    pub(super) fn corner_model(&self) -> Result<Model, SolverError> {
         let nv = 1 + self
             .mesh
             .triangles
@@ -74,28 +102,7 @@ impl Model {
                     ..ob.clone()
                 }),
         };
-        let first = Model::new(problem)?;
-        let sub = Excitation {
-            currents: exc.currents,
-            a_fixed: &exc.a_fixed[..nv],
-            b0: exc.b0,
-        };
-        let (sol, first_report) = first.solve_nonlinear(sub, None, settings)?;
-        let mut a = vec![0.0; self.mesh.nodes.len()];
-        a[..nv].copy_from_slice(&sol.a);
-        // Mid-edge nodes: the first-order field at the edge's midpoint.
-        for (t, mid) in self.mesh.mid.iter().enumerate() {
-            let g = &first.geom[t];
-            let av = sol.element_values(&first, t);
-            for (k, &n) in mid.iter().enumerate() {
-                let mut l = [0.0; 3];
-                l[k] = 0.5;
-                l[(k + 1) % 3] = 0.5;
-                let r = g.position(l)[0];
-                a[n as usize] = if r > 0.0 { g.a_at(&av, l, r) } else { 0.0 };
-            }
-        }
-        Ok((self.with_fixed(&a, exc.a_fixed), first_report.iterations))
+        Model::new(problem)
     }
 
     /// The first guess: the linear solve with every material at its initial reluctivity ν(0),
@@ -107,25 +114,9 @@ impl Model {
     /// Measured on the built-in torquer rod (80 % Ni-Fe knee law) at 3 A: 52 Newton iterations
     /// without it, 13 with it; 11 against 18 for an arctangent law.
     pub(super) fn initial_guess(&self, exc: Excitation<'_>) -> Result<Vec<f64>, SolverError> {
-        self.initial_guess_unless_saturated(exc, false)
-            .map(|a| a.expect("a guess is always returned when not asked to stop"))
-    }
-
-    /// [`Self::initial_guess`], or None when `stop` is set and the linear solve's field
-    /// reaches the saturation flux density of its law somewhere (the case is past the knee,
-    /// and the caller starts elsewhere: the secant update is then not computed).
-    pub(super) fn initial_guess_unless_saturated(
-        &self,
-        exc: Excitation<'_>,
-        stop: bool,
-    ) -> Result<Option<Vec<f64>>, SolverError> {
-        let initial: Vec<Vec<f64>> = self.geom.iter().map(|g| vec![0.0; g.qp.len()]).collect();
-        let guess = self.secant_solve(exc, &initial)?;
+        let guess = self.linear_field(exc)?;
         if self.is_linear() {
-            return Ok(Some(guess));
-        }
-        if stop && self.saturates(&guess, exc.b0) {
-            return Ok(None);
+            return Ok(guess);
         }
         let field = Solution {
             a: guess,
@@ -145,7 +136,19 @@ impl Model {
                     .collect()
             })
             .collect();
-        Ok(Some(self.secant_solve(exc, &secant)?))
+        self.secant_solve(exc, &secant)
+    }
+
+    /// The linear solve with every material at its initial reluctivity ν(0).
+    fn linear_field(&self, exc: Excitation<'_>) -> Result<Vec<f64>, SolverError> {
+        let initial: Vec<Vec<f64>> = self.geom.iter().map(|g| vec![0.0; g.qp.len()]).collect();
+        self.secant_solve(exc, &initial)
+    }
+
+    /// Whether the linear solve's field reaches the saturation flux density of its law
+    /// somewhere (the case is past the knee).
+    pub(super) fn linear_field_saturates(&self, exc: Excitation<'_>) -> Result<bool, SolverError> {
+        Ok(!self.is_linear() && self.saturates(&self.linear_field(exc)?, exc.b0))
     }
 
     /// The linear solve with reluctivity `nu[e][q]` per quadrature point (0 stands for ν(0)).

@@ -149,7 +149,16 @@ impl Model {
             max_iterations: settings.max_iterations.min(DIRECT_BUDGET),
             ..*settings
         };
-        let spent = match self.initial_guess_unless_saturated(exc, true)? {
+        // The saturation test runs on the first-order model (a quarter of the unknowns), which
+        // a saturated case needs anyway.
+        let first = self.corner_model()?;
+        let corners_exc = Excitation {
+            currents: exc.currents,
+            a_fixed: &exc.a_fixed[..first.mesh.nodes.len()],
+            b0: exc.b0,
+        };
+        let saturated = first.linear_field_saturates(corners_exc)?;
+        let spent = match (!saturated).then(|| self.initial_guess(exc)).transpose()? {
             None => 0,
             Some(guess) => match self.newton_from(guess, exc, &budget) {
                 Ok((sol, mut rep, t)) => {
@@ -161,7 +170,7 @@ impl Model {
                 Err(e) => return Err(e),
             },
         };
-        let (guess, start_iterations) = self.first_order_guess(exc, settings)?;
+        let (guess, start_iterations) = self.first_order_guess(&first, exc, settings)?;
         let mut rest = *settings;
         rest.max_iterations = settings.max_iterations.saturating_sub(spent).max(1);
         let (sol, mut rep, t) = self.newton_from(guess, exc, &rest)?;
