@@ -418,6 +418,7 @@ pub fn run_from(
         converged: true,
         newton_iterations: newton.as_ref().map_or(0, |n| n.iterations),
         newton_start_iterations: newton.as_ref().map_or(0, |n| n.start_iterations),
+        newton_local_iterations: newton.as_ref().map_or(0, |n| n.local_iterations),
         residual_history: newton.as_ref().map(|n| n.residual_history.clone()),
         inductance_matrix_H: inductance_matrix,
         energy_J: w_energy,

@@ -36,6 +36,9 @@ pub struct Report {
     pub newton_iterations: usize,
     /// Newton iterations of the first-order solve a second-order one started from (0 if none).
     pub newton_start_iterations: usize,
+    /// Local Newton iterations on the knee elements between global ones (first-order start
+    /// included; 0 when no element sits on a knee).
+    pub newton_local_iterations: usize,
     /// Relative residual before each Newton iteration and at the end (saturating cores only).
     pub residual_history: Option<Vec<f64>>,
     /// Incremental inductance matrix, H (row i, column k: dΨ_i/dI_k).
@@ -361,12 +364,20 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     if let Some(h) = &r.residual_history {
         let _ = writeln!(
             s,
-            "Solver    Newton converged in {} iterations{}; relative residuals {}",
+            "Solver    Newton converged in {} iterations{}{}; relative residuals {}",
             r.newton_iterations,
             if r.newton_start_iterations > 0 {
                 format!(
                     " (from a first-order start of {} iterations)",
                     r.newton_start_iterations
+                )
+            } else {
+                String::new()
+            },
+            if r.newton_local_iterations > 0 {
+                format!(
+                    ", {} local ones on the knee elements",
+                    r.newton_local_iterations
                 )
             } else {
                 String::new()

@@ -7,7 +7,7 @@ use crate::field::Solution;
 use crate::solve::Model;
 use crate::{assembly, SolverError};
 
-use super::{Excitation, NewtonSettings};
+use super::{Excitation, NewtonReport, NewtonSettings};
 
 impl Model {
     /// Whether the field `a` reaches the saturation flux density of its law anywhere.
@@ -37,7 +37,7 @@ impl Model {
         first: &Model,
         exc: Excitation<'_>,
         settings: &NewtonSettings,
-    ) -> Result<(Vec<f64>, usize), SolverError> {
+    ) -> Result<(Vec<f64>, NewtonReport), SolverError> {
         let nv = first.mesh.nodes.len();
         let sub = Excitation {
             currents: exc.currents,
@@ -59,7 +59,7 @@ impl Model {
                 a[n as usize] = if r > 0.0 { g.a_at(&av, l, r) } else { 0.0 };
             }
         }
-        Ok((self.with_fixed(&a, exc.a_fixed), first_report.iterations))
+        Ok((self.with_fixed(&a, exc.a_fixed), first_report))
     }
 
     /// The first-order model on this second-order model's corners (same regions, conditions
