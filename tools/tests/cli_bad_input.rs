@@ -173,3 +173,19 @@ fn a_length_without_its_unit_that_explodes_the_mesh_is_an_input_fault() {
         &["mesh.max_nodes", "units"],
     );
 }
+
+#[test]
+fn element_orders_other_than_one_or_two_are_refused_as_such() {
+    for (name, order) in [
+        ("order0", "0"),
+        ("order-1", "-1"),
+        ("order3", "3"),
+        ("order1.5", "1.5"),
+    ] {
+        expect_fault(
+            name,
+            &format!("{GOOD}[mesh]\norder = {order}\n"),
+            &["mesh.order", "must be 1 or 2"],
+        );
+    }
+}

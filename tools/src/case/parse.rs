@@ -432,10 +432,10 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         "order",
     ])?;
     let d = MeshControls::default();
-    let order = match s.positive("order", Dimension::Dimensionless)? {
+    let order = match s.quantity("order", Dimension::Dimensionless)? {
         None => d.order,
         Some(o) if o == 1.0 || o == 2.0 => o as usize,
-        Some(_) => return Err(s.fault("order", "must be 1 or 2")),
+        Some(o) => return Err(s.fault("order", &format!("{o} must be 1 or 2"))),
     };
     let min_angle_deg = s
         .positive("min_angle", Dimension::Dimensionless)?
