@@ -240,7 +240,7 @@ fn run_failure(e: RunError, file: &str) -> Failure {
         ));
     }
     let code = match &e {
-        RunError::Probe(_) => 2,
+        RunError::Probe { .. } => 2,
         RunError::Solve(SolverError::NotConverged { .. }) => 3,
         _ => 1,
     };

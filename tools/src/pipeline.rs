@@ -78,8 +78,15 @@ pub enum RunError {
     #[error("solve failed: {0}")]
     Solve(#[from] SolverError),
     /// A probe point or line lies outside the meshed region.
-    #[error("probe: {0}")]
-    Probe(SolverError),
+    #[error("{option}: {source} (meshed air radius {air_radius_m:.4} m)")]
+    Probe {
+        /// The command-line option that asked for the point (`--point`, `--line`).
+        option: &'static str,
+        /// What went wrong.
+        source: SolverError,
+        /// Radius of the meshed air sphere, m.
+        air_radius_m: f64,
+    },
 }
 
 /// The built mesh converted for the solver, with its Dirichlet data.
@@ -360,7 +367,11 @@ pub fn run_from(
             let mut report = sol
                 .at_point(&model, &locator, p)
                 .map(PointReport::from)
-                .map_err(RunError::Probe)?;
+                .map_err(|source| RunError::Probe {
+                    option: "--point",
+                    source,
+                    air_radius_m: ro,
+                })?;
             report.low_accuracy_near_axis =
                 case.core.is_some() && report.region == AIR_TAG && near_axis(&model, &locator, p);
             Ok(report)
@@ -369,7 +380,13 @@ pub fn run_from(
     let line_csv = match opts.line {
         Some((from, to, n)) => {
             let samples =
-                probe::sample_line(&model, &sol, &locator, from, to, n).map_err(RunError::Probe)?;
+                probe::sample_line(&model, &sol, &locator, from, to, n).map_err(|source| {
+                    RunError::Probe {
+                        option: "--line",
+                        source,
+                        air_radius_m: ro,
+                    }
+                })?;
             Some(crate::report::line_csv(&samples))
         }
         None => None,

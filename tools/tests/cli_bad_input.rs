@@ -189,3 +189,35 @@ fn element_orders_other_than_one_or_two_are_refused_as_such() {
         );
     }
 }
+
+#[test]
+fn probe_points_outside_the_mesh_name_their_option_and_write_nothing() {
+    // The built-in example's air region ends about 0.11 m from the origin.
+    let dir = std::env::temp_dir().join(format!("axicore-bad-probe-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let csv = dir.join("line.csv");
+    for (args, option) in [
+        (vec!["solve", "--point", "1 m, 0 m"], "--point"),
+        (
+            vec![
+                "solve",
+                "--line",
+                "0,0:1 m,0:5",
+                "--csv",
+                csv.to_str().unwrap(),
+            ],
+            "--line",
+        ),
+    ] {
+        let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
+            .args(&args)
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
+        assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
+        assert!(err.contains(option) && err.contains("outside"), "{err}");
+        assert!(!csv.exists(), "{args:?} wrote {csv:?}");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}
