@@ -420,10 +420,12 @@ fn ramp_command(
         message: m,
     })?;
     if json {
-        emitln!(
-            "{}",
-            serde_json::to_string_pretty(&result).unwrap_or_default()
-        );
+        let mut v = serde_json::to_value(&result).map_err(|e| Failure {
+            code: 1,
+            message: e.to_string(),
+        })?;
+        add_cautions(&mut v);
+        emitln!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         emit!("{}", ramp::summary(&result));
     }
@@ -603,6 +605,7 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                             message: e.to_string(),
                         })?;
                 }
+                add_cautions(&mut v);
                 emitln!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
             } else {
                 if let Some(c) = &controlled {
@@ -613,4 +616,15 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             Ok(())
         }
     }
+}
+
+/// Adds the summary's cautions to a JSON report as `cautions` (one line): a report read by
+/// another program carries them too.
+fn add_cautions(v: &mut serde_json::Value) {
+    let text = axicore::report::CAUTIONS
+        .trim_start_matches("Cautions: ")
+        .split_whitespace()
+        .collect::<Vec<_>>()
+        .join(" ");
+    v["cautions"] = serde_json::json!(text);
 }

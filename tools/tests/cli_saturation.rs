@@ -264,3 +264,21 @@ fn history_plot_is_written_even_when_a_cap_stops_after_one_level() {
     assert!(text.starts_with("<svg"), "{}", &text[..text.len().min(80)]);
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn json_reports_carry_the_cautions() {
+    // The brief's rule: reports carry the cautions (estimates to be confirmed by measurement,
+    // winding temperature and insulation limits, standards and qualified review).
+    for args in [
+        vec!["solve", "--json"],
+        vec!["ramp", "--to", "0.1A", "--steps", "2", "--json"],
+    ] {
+        let (code, out, err) = axicore(&args);
+        assert_eq!(code, 0, "{args:?}: {err}");
+        let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+        let c = v["cautions"].as_str().unwrap_or_default();
+        for needle in ["measurement", "insulation", "standards"] {
+            assert!(c.contains(needle), "{args:?}: cautions {c:?}");
+        }
+    }
+}
