@@ -150,12 +150,25 @@ impl Model {
 
     /// Relaxes the free nodes of the knee elements with the rest of `a` held: Newton on the
     /// energy restricted to them, with the energy line search, until their residual has
-    /// fallen by [`LOCAL_REDUCTION`] or below `floor`. Returns the local iterations done.
-    pub(super) fn relax_knee(&self, a: &mut [f64], exc: Excitation<'_>, floor: f64) -> usize {
+    /// fallen by [`LOCAL_REDUCTION`] or below `floor`. `global` is the global residual at `a`
+    /// (over the free unknowns), whose patch rows are the patch residual. Returns the local
+    /// iterations done.
+    pub(super) fn relax_knee(
+        &self,
+        a: &mut [f64],
+        global: &[f64],
+        exc: Excitation<'_>,
+        floor: f64,
+    ) -> usize {
         let Some(patch) = self.knee_patch(a, exc.b0) else {
             return 0;
         };
-        let (mut r, _) = self.patch_terms(&patch, None, a, exc);
+        let mut r: Vec<f64> = patch
+            .dofs
+            .free_nodes
+            .iter()
+            .map(|&n| global[self.dofs.index[n as usize] as usize])
+            .collect();
         let target = (LOCAL_REDUCTION * norm(&r)).max(floor);
         if norm(&r) <= target {
             return 0;

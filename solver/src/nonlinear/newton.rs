@@ -131,8 +131,14 @@ impl Model {
             r = r_new;
             tangent = t_new;
             // Nonlinear elimination: settle the knee elements locally before the next global
-            // step (see `local`); the residual and tangent there are then recomputed.
-            let local = self.relax_knee(&mut a, exc, LOCAL_FLOOR * settings.residual_tol * scale);
+            // step (see `local`); the residual and tangent there are then recomputed. The
+            // patch's residual is part of the global one: below the floor, nothing to do.
+            let floor = LOCAL_FLOOR * settings.residual_tol * scale;
+            let local = if norm(&r) > floor {
+                self.relax_knee(&mut a, &r, exc, floor)
+            } else {
+                0
+            };
             if local > 0 {
                 report.local_iterations += local;
                 r = self.residual(&a, exc);
