@@ -38,7 +38,8 @@ const KNEE_RATIO: f64 = 10.0;
 const MAX_PATCH_FRACTION: f64 = 0.5;
 /// Local Newton iterations per elimination.
 const LOCAL_ITERATIONS: usize = 12;
-/// The local solve stops when its residual has fallen by this factor …
+/// The local solve stops when its residual has fallen by this factor (or below the floor
+/// the global tolerance sets, see `relax_knee`).
 const LOCAL_REDUCTION: f64 = 1e-4;
 
 /// The knee elements' free nodes as a small problem: every element touching one of them
