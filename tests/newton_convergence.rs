@@ -30,6 +30,21 @@ fn assert_quadratic_tail(history: &[f64]) {
     assert!(quadratic || order_two, "no quadratic step in {history:?}");
 }
 
+/// Asserts at most 15 Newton iterations, those of a first-order start included, and a
+/// quadratic tail; returns the residual history.
+fn assert_converged_within_15<'r>(r: &'r axicore::report::Report, label: &str) -> &'r [f64] {
+    let total = r.newton_iterations + r.newton_start_iterations;
+    assert!(
+        total <= 15,
+        "{label}: {} + {} first-order iterations",
+        r.newton_iterations,
+        r.newton_start_iterations
+    );
+    let h = r.residual_history.as_ref().expect("a nonlinear solve");
+    assert_quadratic_tail(h);
+    h
+}
+
 #[test]
 fn a_linear_b_h_table_reproduces_the_linear_solve() {
     // A B–H table on the straight line B = 500 μ0 H, far beyond any field reached, goes
@@ -211,16 +226,8 @@ fn newton_with_knee_elimination_converges_on_the_sharp_knee_law_up_to_100_times_
                 .replace("order = 2", &format!("order = {order}"))
                 .replace("fineness = 1.0", "fineness = 0.7");
             let r = solve(&case, &RunOptions::default()).report;
-            let total = r.newton_iterations + r.newton_start_iterations;
-            assert!(
-                total <= 15,
-                "{amps} A, order {order}: {} + {} first-order iterations",
-                r.newton_iterations,
-                r.newton_start_iterations
-            );
-            let h = r.residual_history.as_ref().expect("a nonlinear solve");
+            let h = assert_converged_within_15(&r, &format!("{amps} A, order {order}"));
             assert!(*h.last().unwrap() <= 1e-8, "{amps} A: {h:?}");
-            assert_quadratic_tail(h);
             if amps > 1.0 {
                 assert!(
                     r.newton_local_iterations > 0,
@@ -254,14 +261,7 @@ fn newton_converges_within_15_iterations_on_the_saturating_reference_cases_up_to
             let case = base.replace(own, &format!(r#"current = "{} A""#, k * knee_a))
                 + "\n[mesh]\nfineness = 0.5\n";
             let r = solve(&case, &RunOptions::default()).report;
-            let total = r.newton_iterations + r.newton_start_iterations;
-            assert!(
-                total <= 15,
-                "{name} at {k}× the knee: {} + {} first-order iterations",
-                r.newton_iterations,
-                r.newton_start_iterations
-            );
-            assert_quadratic_tail(r.residual_history.as_ref().expect("a nonlinear solve"));
+            assert_converged_within_15(&r, &format!("{name} at {k}× the knee"));
         }
     }
 }
