@@ -83,13 +83,8 @@ impl Model {
                     let a_norm = self.free_norm(&a);
                     let step = norm(&delta) / if a_norm > 0.0 { a_norm } else { 1.0 };
                     if step <= settings.update_tol {
-                        for (i, d) in delta.iter().enumerate() {
-                            a[self.dofs.free_nodes[i] as usize] += d;
-                        }
-                        report.iterations += 1;
-                        report.update_history.push(step);
-                        report.step_lengths.push(1.0);
-                        return Ok((Solution { a, b0: exc.b0 }, report, Some(old)));
+                        let sol = self.apply_last(a, &delta, step, exc.b0, &mut report);
+                        return Ok((sol, report, Some(old)));
                     }
                 }
             }
@@ -107,13 +102,8 @@ impl Model {
             if rel <= settings.residual_tol && full_step <= settings.update_tol {
                 // Converged: the residual is small and so is the last Newton correction,
                 // which is applied (its effect on the residual is quadratically small).
-                for (i, d) in delta.iter().enumerate() {
-                    a[self.dofs.free_nodes[i] as usize] += d;
-                }
-                report.iterations += 1;
-                report.update_history.push(full_step);
-                report.step_lengths.push(1.0);
-                return Ok((Solution { a, b0: exc.b0 }, report, Some(factor)));
+                let sol = self.apply_last(a, &delta, full_step, exc.b0, &mut report);
+                return Ok((sol, report, Some(factor)));
             }
             let (alpha, r_new, t_new) = self.line_search(&a, &delta, &r, exc);
             let mut step2 = 0.0;
@@ -152,6 +142,24 @@ impl Model {
             report.update_history.push(update);
             report.step_lengths.push(alpha);
         }
+    }
+
+    /// Applies the final full correction `delta` (relative size `step`) and records it.
+    fn apply_last(
+        &self,
+        mut a: Vec<f64>,
+        delta: &[f64],
+        step: f64,
+        b0: f64,
+        report: &mut NewtonReport,
+    ) -> Solution {
+        for (i, d) in delta.iter().enumerate() {
+            a[self.dofs.free_nodes[i] as usize] += d;
+        }
+        report.iterations += 1;
+        report.update_history.push(step);
+        report.step_lengths.push(1.0);
+        Solution { a, b0 }
     }
 
     /// Step length along `delta` from `a` (residual `r0` there), the residual at the new point
