@@ -200,18 +200,7 @@ impl SaturationLaw {
                 let js = self.saturation_b().unwrap_or(0.0);
                 let guess = (b * self.nu(0.0)).max((b - js) / MU0);
                 if let SaturationLaw::Knee { js, mu_i, mu_max } = *self {
-                    // The shape constants once per inversion, not once per evaluation: the
-                    // inversion runs at every quadrature point of every Newton pass.
-                    let (a, hk) = knee_shape(js, mu_i, mu_max);
-                    let f = |h: f64| {
-                        let x = h / hk;
-                        let q = 1.0 + a * x + x * x;
-                        (
-                            MU0 * h + js * (a * x + x * x) / q,
-                            MU0 + js * (a + 2.0 * x) / (q * q * hk),
-                        )
-                    };
-                    return solve_increasing(f, b, 0.0, b / MU0, guess);
+                    return knee_h(js, mu_i, mu_max, b);
                 }
                 solve_increasing(|h| self.b_and_slope(h), b, 0.0, b / MU0, guess)
             }
@@ -342,6 +331,72 @@ fn knee_shape(js: f64, mu_i: f64, mu_max: f64) -> (f64, f64) {
     (a, js / (MU0 * (mu_max - 1.0) * (2.0 - a)))
 }
 
+/// H in A/m of the knee law at |B| = `b` > 0: the positive root of the cubic in x = H/Hk that
+/// clears the law's denominator, p(x) = m x³ + (a m + Js − B) x² + (m + a Js − a B) x − B with
+/// m = μ0 Hk. Why not the generic inversion of B(H): this runs at every quadrature point of
+/// every residual, and Newton on B(H) from below creeps along the knee (119 ns per call,
+/// measured on the 80 % Ni-Fe law over 0–1.2 T). p has one positive root with p < 0 left of
+/// it and is convex right of it, so Newton from an upper bound descends monotonically; the
+/// bounds below make the first guess close.
+fn knee_h(js: f64, mu_i: f64, mu_max: f64, b: f64) -> f64 {
+    let (a, hk) = knee_shape(js, mu_i, mu_max);
+    let m = MU0 * hk;
+    let (c2, c1) = (a * m + js - b, m + a * (js - b));
+    let p = |x: f64| ((m * x + c2) * x + c1) * x - b;
+    let dp = |x: f64| (3.0 * m * x + 2.0 * c2) * x + c1;
+    let polarisation = |x: f64| js * (a * x + x * x) / (1.0 + a * x + x * x);
+    let (lo, hi) = if b < js {
+        // μ0 H ≥ 0 gives J ≤ B: the root of (Js − B)(x² + a x) = B bounds x from above; so does
+        // m x³ ≤ m x q = B − (Js − B)(a x + x²) ≤ B.
+        let d = js - b;
+        let below = 2.0 * b / (a * d + (a * a * d * d + 4.0 * d * b).sqrt());
+        // (cbrt is slow: taken only where it is the tighter bound, close below Js.)
+        let cubic = if m * below * below * below > b {
+            (b / m).cbrt()
+        } else {
+            below
+        };
+        (0.0, below.min(cubic))
+    } else {
+        // J < Js gives x > (B − Js)/m; J ≥ J(that) gives x ≤ (B − J(lo))/m; and m x³/2 exceeds
+        // each term of m x q = B + (B − Js)(a x + x²) once x passes the cubic and linear bounds.
+        let lo = (b - js) / m;
+        let linear = (2.0 * (1.0 + a) * lo).max(1.0);
+        let split = if m * linear * linear * linear < 2.0 * b {
+            (2.0 * b / m).cbrt()
+        } else {
+            linear
+        };
+        (lo, split.min((b - polarisation(lo)) / m))
+    };
+    let (mut lo, mut hi) = (lo, hi.max(lo));
+    let mut x = hi;
+    for _ in 0..100 {
+        let y = p(x);
+        // Stop at the rounding level of p's terms (their sum cancels at the root).
+        let noise = 8.0 * f64::EPSILON * (((m * x + c2.abs()) * x + c1.abs()) * x + b);
+        if y.abs() <= noise {
+            break;
+        }
+        if y > 0.0 {
+            hi = x;
+        } else {
+            lo = x;
+        }
+        let d = dp(x);
+        let newton = x - y / d;
+        x = if d > 0.0 && newton > lo && newton < hi {
+            newton
+        } else {
+            0.5 * (lo + hi)
+        };
+        if hi - lo <= 4.0 * f64::EPSILON * hi {
+            break;
+        }
+    }
+    hk * x
+}
+
 /// Flux density where Brauer's differential reluctivity reaches 1/μ0 (it grows monotonically).
 fn brauer_knee(k1: f64, k2: f64, k3: f64) -> f64 {
     let nu_d = |b: f64| k3 + k1 * (k2 * b * b).exp() * (1.0 + 2.0 * k2 * b * b);
@@ -410,6 +465,33 @@ mod tests {
             for b in [1e-4, 0.1, 0.7, 1.2, 2.5, 10.0] {
                 let back = law.b_of_h(law.h(b));
                 assert!((back - b).abs() < 1e-12 * b, "{law:?} {b} {back}");
+            }
+        }
+    }
+
+    #[test]
+    fn knee_law_cubic_root_matches_the_generic_inversion_of_b_of_h() {
+        // The closed-form bracket and Newton on the cubic (`knee_h`) against bisection-safeguarded
+        // Newton on B(H) itself, from far below the knee to deep saturation.
+        for (js, mu_i, mu_max) in [
+            (0.78, 5e4, 2.5e5),
+            (2.0, 300.0, 5000.0),
+            (1.6, 6000.0, 6000.0),
+        ] {
+            let law = SaturationLaw::Knee { js, mu_i, mu_max };
+            for k in 0..=400 {
+                let b = 3.0 * js * (k as f64 / 400.0).powi(2) + 1e-9;
+                let h = law.h(b);
+                let generic = solve_increasing(|h| law.b_and_slope(h), b, 0.0, b / MU0, h);
+                let back = law.b_and_slope(h).0;
+                assert!(
+                    (h - generic).abs() <= 1e-12 * generic,
+                    "{law:?} b={b}: {h} vs {generic}"
+                );
+                assert!(
+                    (back - b).abs() <= 1e-14 * b.max(1e-3),
+                    "{law:?} b={b}: B(H) = {back}"
+                );
             }
         }
     }

@@ -7,6 +7,7 @@
 //! definite (see [`crate::nonlinear`]).
 
 mod invert;
+pub(crate) use invert::solve_increasing;
 mod laws;
 mod table;
 
