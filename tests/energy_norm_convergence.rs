@@ -2,8 +2,8 @@
 //! analytic solution.
 //!
 //! Source: the permeable sphere in a uniform field (Jackson, *Classical Electrodynamics*, 3rd
-//! ed., §5.11): inside B = 3μr/(μr + 2)·B0 e_z; outside B0 e_z plus the field of the dipole
-//! m = 4πa³(μr − 1)/(μr + 2)·H0. The energy-norm error (∫ ν |B_h − B|² dV)^½ of conforming
+//! ed., §5.11 [section number from memory]): inside B = 3μr/(μr + 2)·B0 e_z; outside B0 e_z
+//! plus the field of the dipole m = 4πa³(μr − 1)/(μr + 2)·H0. The energy-norm error (∫ ν |B_h − B|² dV)^½ of conforming
 //! first-order elements is O(h) for such a smooth solution (Ciarlet, *The Finite Element Method
 //! for Elliptic Problems*, 1978, Theorem 3.2.2), i.e. O(N^(−1/2)) in the number of unknowns N
 //! on quasi-uniformly refined meshes. Sketch: μr = 10 (a moderate jump, so the field outside

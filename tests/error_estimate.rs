@@ -2,9 +2,10 @@
 //! within a factor 3 of the estimate (effectivity between 1/3 and 3), and refining to a
 //! tolerance reaches it.
 //!
-//! Sources of the known answers: Jackson, *Classical Electrodynamics*, 3rd ed., §5.11 (linear
-//! sphere); Osborn, Phys. Rev. 67, 351 (1945) (prolate spheroid); the uniformly magnetised
-//! ellipsoid H_in + N·M(H_in) = H0 (references.md §2) for the saturating sphere. The factor-3
+//! Sources of the known answers: Jackson, *Classical Electrodynamics*, 3rd ed., §5.11 [section
+//! number from memory] (linear sphere); Osborn, Phys. Rev. 67, 351 (1945) (prolate spheroid);
+//! the uniformly magnetised ellipsoid H_in + N·M(H_in) = H0 (references.md §2) for the
+//! saturating sphere. The factor-3
 //! band is the design requirement. Refinement starts from the default mesh (fineness 1); from
 //! a far coarser start (fineness 0.5, ~500 nodes) the second level's estimate was measured 3.4×
 //! too large on the sphere, outside the band.

@@ -3,8 +3,8 @@
 //! Source: any ellipsoid of an isotropic single-valued material in a uniform field H0 is
 //! magnetised uniformly, and its interior field solves H_in + N·M(H_in) = H0 (references.md
 //! §2, "nonlinear ellipsoid"; the uniformly magnetised sphere with N = 1/3 is Jackson,
-//! *Classical Electrodynamics*, 3rd ed., §5.10–5.11). Check values: references.md §7 check #9
-//! (arctangent law Js = 1.5 T, μri = 1000: J = 0.299071, 1.447696, 1.498177 T at
+//! *Classical Electrodynamics*, 3rd ed., §5.10–5.11 [section numbers from memory]). Check
+//! values: references.md §7 check #9 (arctangent law Js = 1.5 T, μri = 1000: J = 0.299071, 1.447696, 1.498177 T at
 //! μ0H0 = 0.1, 0.5, 1.0 T), evaluated again here by the scalar root.
 //! Sketch: sphere of radius 10 mm at the origin, B0 along z, no winding, fineness 2 (6.1k
 //! nodes, second order, as the linear sphere test). Tolerance 0.5 % on the dipole (both

@@ -1,8 +1,8 @@
 //! The exact open boundary: results do not depend on where the mesh ends.
 //!
 //! Source: the exterior of a sphere enclosing all sources carries only decaying multipoles
-//! (Jackson, *Classical Electrodynamics*, 3rd ed., §5.12), whose energy the solver adds exactly
-//! (`solver/src/exterior.rs`). A truncated boundary biases the moment by about −α/(2π R0³)
+//! (Jackson, *Classical Electrodynamics*, 3rd ed., §5.12 [section number from memory]), whose
+//! energy the solver adds exactly (`solver/src/exterior.rs`). A truncated boundary biases the moment by about −α/(2π R0³)
 //! (references.md §8), several per cent at R0 = 3× the source radius; the exact boundary must
 //! remove that bias, leaving only the discretisation's mesh-to-mesh noise.
 //! Sketch: each case is solved at fineness 2 with the air sphere at 6× and 12× the source

@@ -1,7 +1,7 @@
 //! Permeable sphere in a uniform field.
 //!
-//! Source: J. D. Jackson, *Classical Electrodynamics*, 3rd ed., §5.11 (sphere of linear
-//! material in a uniform field): B_in = 3μr/(μr + 2)·B0 and m = 4π a³ (μr − 1)/(μr + 2)·H0.
+//! Source: J. D. Jackson, *Classical Electrodynamics*, 3rd ed., §5.11 [section number from
+//! memory] (sphere of linear material in a uniform field): B_in = 3μr/(μr + 2)·B0 and m = 4π a³ (μr − 1)/(μr + 2)·H0.
 //! references.md §7 check #6 gives 2.994012 and 2.991018 for μr = 1000.
 //! Sketch: sphere of radius a = 10 mm at the origin, B0 = 1 mT along z, no winding; the exact
 //! open boundary on the automatic air sphere (3 a). Tolerance 0.5 % (interior B and dipole).

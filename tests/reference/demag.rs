@@ -156,6 +156,9 @@ pub fn prolate_demag_slender(gamma: f64) -> f64 {
 }
 
 /// Apparent (effective) permeability of a body with demagnetizing factor N: μr/(1 + N(μr − 1)) (references §1).
+/// It follows from H_in = H0 − N·M with M = (μr − 1)·H_in, the uniformly magnetised ellipsoid
+/// (Osborn, Phys. Rev. 67, 351 (1945); Jackson, Classical Electrodynamics, 3rd ed., §5.10–5.11
+/// [section numbers from memory] for the sphere, N = 1/3), as μapp = μ0⁻¹·B_in/H0.
 pub fn apparent_permeability(mu_r: f64, n: f64) -> f64 {
     mu_r / (1.0 + n * (mu_r - 1.0))
 }

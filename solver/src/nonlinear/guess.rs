@@ -251,9 +251,9 @@ impl Model {
 /// Why: inside a uniformly magnetised ellipsoid in a uniform applied field, H = H_a − N·M with
 /// M = B/μ0 − H, so H = (H_a − N·B/μ0)/(1 − N) is linear in B for every law, and both linear
 /// solutions lie on that line, which they fix. For an ellipsoid the point is then the exact
-/// internal field (Jackson, Classical Electrodynamics, 3rd ed., §5.10–5.11, sphere N = 1/3;
-/// Osborn, Phys. Rev. 67 (1945), general N), and for a finite rod a local estimate on the
-/// right side of the knee. Where the line does not slope down (shielded or return-flux
+/// internal field (Jackson, Classical Electrodynamics, 3rd ed., §5.10–5.11 [section numbers
+/// from memory], sphere N = 1/3; Osborn, Phys. Rev. 67 (1945), general N), and for a finite
+/// rod a local estimate on the right side of the knee. Where the line does not slope down (shielded or return-flux
 /// regions, where the core weakens the field), the geometric mean of ν(B_lin) and ν at H_lin,
 /// which bracket the solution from either side along such a line, stands in.
 pub(crate) fn load_line_reluctivity(mat: &Material, b_lin: f64, h_air: f64) -> f64 {
