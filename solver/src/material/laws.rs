@@ -195,13 +195,13 @@ impl SaturationLaw {
                 if b <= 0.0 {
                     return 0.0;
                 }
+                if let SaturationLaw::Knee { js, mu_i, mu_max } = *self {
+                    return knee_h(js, mu_i, mu_max, b);
+                }
                 // B ≥ μ0 H bounds H from above. Guess: the initial permeability below the
                 // knee, the vacuum line shifted by Js above it.
                 let js = self.saturation_b().unwrap_or(0.0);
                 let guess = (b * self.nu(0.0)).max((b - js) / MU0);
-                if let SaturationLaw::Knee { js, mu_i, mu_max } = *self {
-                    return knee_h(js, mu_i, mu_max, b);
-                }
                 solve_increasing(|h| self.b_and_slope(h), b, 0.0, b / MU0, guess)
             }
         }
@@ -339,6 +339,10 @@ fn knee_shape(js: f64, mu_i: f64, mu_max: f64) -> (f64, f64) {
 /// it and is convex right of it, so Newton from an upper bound descends monotonically; the
 /// bounds below make the first guess close.
 fn knee_h(js: f64, mu_i: f64, mu_max: f64, b: f64) -> f64 {
+    if !b.is_finite() {
+        // NaN stays NaN (the bounds' max/min would drop it); an infinite B needs infinite H.
+        return b;
+    }
     let (a, hk) = knee_shape(js, mu_i, mu_max);
     let m = MU0 * hk;
     let (c2, c1) = (a * m + js - b, m + a * (js - b));
@@ -479,20 +483,22 @@ mod tests {
             (1.6, 6000.0, 6000.0),
         ] {
             let law = SaturationLaw::Knee { js, mu_i, mu_max };
-            for k in 0..=400 {
-                let b = 3.0 * js * (k as f64 / 400.0).powi(2) + 1e-9;
+            let sweep = (0..=400).map(|k| 3.0 * js * (k as f64 / 400.0).powi(2) + 1e-9);
+            let edges = [1e-12, js * (1.0 - 1e-9), js, js * (1.0 + 1e-9), 100.0 * js];
+            for b in sweep.chain(edges) {
                 let h = law.h(b);
-                let generic = solve_increasing(|h| law.b_and_slope(h), b, 0.0, b / MU0, h);
+                let generic = solve_increasing(|h| law.b_and_slope(h), b, 0.0, b / MU0, 0.0);
                 let back = law.b_and_slope(h).0;
                 assert!(
                     (h - generic).abs() <= 1e-12 * generic,
                     "{law:?} b={b}: {h} vs {generic}"
                 );
                 assert!(
-                    (back - b).abs() <= 1e-14 * b.max(1e-3),
+                    (back - b).abs() <= 1e-14 * b,
                     "{law:?} b={b}: B(H) = {back}"
                 );
             }
+            assert!(law.h(f64::NAN).is_nan());
         }
     }
 
