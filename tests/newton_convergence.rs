@@ -69,10 +69,10 @@ b_axial = "0.2 mT"
 fineness = 0.5
 "#;
     let table = format!(
-        "[core.bh_curve]\nh = [1e3, 1e5, 1e7]\nb = [{}, {}, {}]",
-        500.0 * mu0 * 1e3,
-        500.0 * mu0 * 1e5,
-        500.0 * mu0 * 1e7
+        "[core.bh_curve]\nh = [1e2, 1e4, 1e6]\nb = [{}, {}, {}]",
+        500.0 * mu0 * 1e2,
+        500.0 * mu0 * 1e4,
+        500.0 * mu0 * 1e6
     );
     let lin = solve(
         &geometry.replace("CORE_LAW", "mu_r = 500"),

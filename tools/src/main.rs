@@ -194,13 +194,19 @@ fn load(case: &Option<PathBuf>) -> Result<Case, Failure> {
     }
 }
 
+/// Largest `--threads` accepted.
+const MAX_THREADS: usize = 1024;
+
 fn parse_point(text: &str, what: &str) -> Result<[f64; 2], Failure> {
     let mut parts = text.split(',');
     let (Some(r), Some(z), None) = (parts.next(), parts.next(), parts.next()) else {
         return Err(input_error(format!("{what}: '{text}' must be R,Z")));
     };
-    let r = units::parse(r, Dimension::Length).map_err(|e| input_error(format!("{what}: {e}")))?;
-    let z = units::parse(z, Dimension::Length).map_err(|e| input_error(format!("{what}: {e}")))?;
+    let parse = |t| {
+        units::parse_supported(t, Dimension::Length)
+            .map_err(|e| input_error(format!("{what}: {e}")))
+    };
+    let (r, z) = (parse(r)?, parse(z)?);
     if r < 0.0 {
         return Err(input_error(format!(
             "{what}: r = {r} m must not be negative"
@@ -388,7 +394,8 @@ fn ramp_command(
     svg: Option<PathBuf>,
     json: bool,
 ) -> Result<(), Failure> {
-    let to = units::parse(to, Dimension::Current).map_err(|e| input_error(format!("--to: {e}")))?;
+    let to = units::parse_supported(to, Dimension::Current)
+        .map_err(|e| input_error(format!("--to: {e}")))?;
     if !(to.is_finite() && to > 0.0) {
         return Err(input_error(format!("--to: {to} A must be positive")));
     }
@@ -555,7 +562,12 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                 }
             };
             let outcome = match threads {
-                Some(0) => return Err(input_error("--threads must be at least 1".into())),
+                // (More threads than this only cost start-up time: 100 000 took over a minute.)
+                Some(n) if !(1..=MAX_THREADS).contains(&n) => {
+                    return Err(input_error(format!(
+                        "--threads: {n} must be from 1 to {MAX_THREADS}"
+                    )))
+                }
                 Some(n) => rayon::ThreadPoolBuilder::new()
                     .num_threads(n)
                     .build()

@@ -32,6 +32,53 @@ impl fmt::Display for Dimension {
     }
 }
 
+/// The largest magnitude a case or option accepts for a quantity of dimension `dim`, in SI,
+/// and as printed; lengths that are sizes (not positions) must also reach [`SMALLEST_SIZE`].
+/// Why bounds at all: a length of 1e300 m or 1e-300 m is finite but overflows the derived
+/// sizes (air sphere, current density) or falls below the triangulator's coordinate
+/// resolution, and failed deep inside the mesher or solver with a message naming no key. The
+/// bounds are ours (common practice: decades beyond the rod-core coils this program is for,
+/// from micro sensor cores to metre-long torquer rods).
+pub fn largest_magnitude(dim: Dimension) -> Option<(f64, &'static str)> {
+    match dim {
+        Dimension::Length => Some((1e3, "1 km")),
+        Dimension::Current => Some((1e6, "1 MA")),
+        Dimension::FluxDensity => Some((1e3, "1 kT")),
+        Dimension::FieldStrength => Some((1e12, "1e12 A/m")),
+        Dimension::Dimensionless => None,
+    }
+}
+
+/// Smallest size (a length, diameter, radius or element size) accepted, m.
+pub const SMALLEST_SIZE: f64 = 1e-6;
+
+/// Rejects a value above the largest magnitude of its dimension (see [`largest_magnitude`]);
+/// the error is a short phrase for messages.
+pub fn check_magnitude(v: f64, dim: Dimension) -> Result<(), String> {
+    match largest_magnitude(dim) {
+        Some((hi, text)) if v.abs() > hi => Err(format!(
+            "{v:e} (SI) is above the supported magnitude {text}"
+        )),
+        _ => Ok(()),
+    }
+}
+
+/// Rejects a size below [`SMALLEST_SIZE`].
+pub fn check_size(v: f64) -> Result<(), String> {
+    if v < SMALLEST_SIZE {
+        Err(format!("{v:e} m is below the supported size 1 µm"))
+    } else {
+        Ok(())
+    }
+}
+
+/// [`parse`], then [`check_magnitude`].
+pub fn parse_supported(text: &str, dim: Dimension) -> Result<f64, String> {
+    let v = parse(text, dim)?;
+    check_magnitude(v, dim)?;
+    Ok(v)
+}
+
 /// SI prefixes accepted in front of a base symbol.
 const PREFIXES: [(&str, f64); 8] = [
     ("n", 1e-9),

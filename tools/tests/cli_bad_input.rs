@@ -221,3 +221,65 @@ fn probe_points_outside_the_mesh_name_their_option_and_write_nothing() {
     }
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn finite_but_absurd_magnitudes_are_refused_with_the_key() {
+    // 1e308 m overflowed the air sphere and 1e-300 m fell below the triangulator's
+    // resolution: both failed inside the mesher with exit code 1 and no key named.
+    expect_fault(
+        "huge-length",
+        &GOOD.replace("length = \"70 mm\"", "length = \"1e308 mm\""),
+        &["core.length", "above the supported magnitude 1 km"],
+    );
+    expect_fault(
+        "tiny-length",
+        &GOOD.replace("length = \"70 mm\"", "length = \"1e-300 mm\""),
+        &["core.length", "below the supported size 1 µm"],
+    );
+    expect_fault(
+        "huge-current",
+        &GOOD.replace("\"40 mA\"", "1e308"),
+        &["winding[1].current", "above the supported magnitude 1 MA"],
+    );
+    expect_fault(
+        "huge-turns",
+        &GOOD.replace("turns = 100", "turns = 1e308"),
+        &["winding[1].turns", "above the supported 1e9"],
+    );
+    expect_fault(
+        "huge-mu",
+        &GOOD.replace("material = \"nickel-iron-80\"", "mu_r = 1e308"),
+        &["core.mu_r", "above the supported 1e7"],
+    );
+    expect_fault(
+        "tiny-inner-radius",
+        &GOOD.replace("\"4.2 mm\"", "1e-300"),
+        &["winding[1].inner_radius", "below the supported size"],
+    );
+}
+
+#[test]
+fn absurd_option_values_are_refused_by_option() {
+    // `--to 1e308A` reached Newton as a NaN residual (exit code 3); `--threads 100000` spent
+    // over a minute starting threads.
+    for (args, needle) in [
+        (vec!["ramp", "--to", "1e308A"], "--to: 1e308 (SI) is above"),
+        (
+            vec!["solve", "--threads", "100000"],
+            "--threads: 100000 must be from 1 to 1024",
+        ),
+        (
+            vec!["solve", "--point", "1e308,0"],
+            "--point: 1e308 (SI) is above",
+        ),
+    ] {
+        let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
+            .args(&args)
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
+        assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
+        assert!(err.contains(needle), "{args:?}: {err}");
+    }
+}

@@ -63,6 +63,18 @@ pub struct BhTable {
     pieces: Vec<Piece>,
 }
 
+/// Largest relative permeability (secant or of a segment) of a table. The most permeable soft
+/// alloys reach about 1e6 (typical value, from memory); a point at B = 1e300 T was accepted
+/// and solved before this bound.
+const MAX_MU_R: f64 = 1e7;
+/// Largest H (A/m) and B (T) of a table point.
+const MAX_H: f64 = 1e12;
+const MAX_B: f64 = 1e3;
+/// Smallest nonzero H (A/m) and B (T) of a table point: a point at (1e-300 A/m, 1e-300 T)
+/// made the tangent singular (the cubic coefficients, ∝ 1/ΔB², overflow).
+const MIN_H: f64 = 1e-9;
+const MIN_B: f64 = 1e-12;
+
 /// Checks the points as given (indices are the caller's) before the origin is added.
 fn validate(points: &[[f64; 2]]) -> Result<(), SolverError> {
     if points.len() < 3 {
@@ -73,11 +85,20 @@ fn validate(points: &[[f64; 2]]) -> Result<(), SolverError> {
     for (i, &[h, b]) in points.iter().enumerate() {
         let prev = i.checked_sub(1).map(|j| (j, points[j]));
         if let Some(why) = point_problem(h, b, prev) {
-            let at = format!("B–H point {i} (H = {h} A/m, B = {b} T)");
+            let at = format!("B–H point {i} (H = {} A/m, B = {} T)", short(h), short(b));
             return Err(SolverError::BadMaterial(format!("{at}: {why}")));
         }
     }
     Ok(())
+}
+
+/// `v` for a message: plain between 1e-3 and 1e6, else in exponent form (not 300 digits).
+fn short(v: f64) -> String {
+    if v == 0.0 || (1e-3..1e6).contains(&v.abs()) {
+        format!("{v}")
+    } else {
+        format!("{v:e}")
+    }
 }
 
 /// What is wrong with point `[h, b]` given its predecessor, if anything.
@@ -94,6 +115,21 @@ fn point_problem(h: f64, b: f64, prev: Option<(usize, [f64; 2])>) -> Option<Stri
     if b < MU0 * h * (1.0 - VACUUM_SLACK) {
         return Some(format!(
             "relative permeability B/(μ0 H) = {} < 1",
+            short(b / (MU0 * h))
+        ));
+    }
+    if h > MAX_H || b > MAX_B {
+        return Some(format!("above the supported {MAX_H:e} A/m or {MAX_B:e} T"));
+    }
+    if h != 0.0 && (h < MIN_H || b < MIN_B) {
+        return Some(format!(
+            "a nonzero point must reach {MIN_H:e} A/m and {MIN_B:e} T (below, the cubic pieces' \
+             coefficients, ∝ 1/ΔB², overflow)"
+        ));
+    }
+    if b > MAX_MU_R * MU0 * h {
+        return Some(format!(
+            "relative permeability B/(μ0 H) = {:e} is above the supported {MAX_MU_R:e}",
             b / (MU0 * h)
         ));
     }
@@ -103,6 +139,12 @@ fn point_problem(h: f64, b: f64, prev: Option<(usize, [f64; 2])>) -> Option<Stri
     }
     if b <= bp {
         return Some(format!("B must increase strictly (point {j}: {bp} T)"));
+    }
+    if b - bp > MAX_MU_R * MU0 * (h - hp) {
+        let mu_diff = (b - bp) / (MU0 * (h - hp));
+        return Some(format!(
+            "ΔB/(μ0 ΔH) = {mu_diff:e} from point {j} is above the supported {MAX_MU_R:e}"
+        ));
     }
     if b - bp < MU0 * (h - hp) * (1.0 - VACUUM_SLACK) {
         let mu_diff = (b - bp) / (MU0 * (h - hp));
@@ -451,5 +493,28 @@ mod tests {
         let mu_r0 = 1.0 / (MU0 * t.nu(0.0));
         let exact = 1.0 + 1.5 / (100.0 * MU0);
         assert!(rel(mu_r0, exact) < 0.05, "initial μr {mu_r0} vs {exact}");
+    }
+
+    #[test]
+    fn refuses_points_outside_the_supported_magnitudes_and_permeabilities() {
+        let ok = [[100.0, 0.5], [1e3, 1.2], [1e4, 1.6]];
+        assert!(BhTable::new(&ok).is_ok());
+        for (bad, needle) in [
+            ([1e-300, 1e-300], "must reach"),
+            ([1e3, 1e300], "above the supported"),
+            ([1e13, 2e7], "above the supported"),
+            ([1e308, 1.9], "< 1"),
+            ([1e-6, 1.0], "relative permeability"),
+        ] {
+            let mut pts = ok.to_vec();
+            pts[if bad[0] < 100.0 { 0 } else { 1 }] = bad;
+            pts.sort_by(|a, b| a[0].total_cmp(&b[0]));
+            let e = BhTable::new(&pts).unwrap_err().to_string();
+            assert!(e.contains(needle), "{bad:?}: {e}");
+        }
+        // A segment steeper than μr = 1e7 between two moderate points.
+        let steep = [[100.0, 0.5], [100.001, 1.2], [1e4, 1.6]];
+        let e = BhTable::new(&steep).unwrap_err().to_string();
+        assert!(e.contains("ΔB/(μ0 ΔH)"), "{e}");
     }
 }

@@ -202,6 +202,7 @@ fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
         )),
         ["mu_r"] => {
             let mu_r = s.quantity("mu_r", Dimension::Dimensionless)?.unwrap_or(1.0);
+            check_mu_r(s, "mu_r", mu_r)?;
             if mu_r < 1.0 {
                 return Err(s.fault(
                     "mu_r",
@@ -235,7 +236,12 @@ fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
                 .table("bh_curve")?
                 .ok_or_else(|| s.fault("bh_curve", "must be a table"))?;
             let points = bh_points(&t)?;
-            let table = BhTable::new(&points).map_err(|e| t.fault("b", &e.to_string()))?;
+            let key = if t.table.contains_key("file") {
+                "file"
+            } else {
+                "b"
+            };
+            let table = BhTable::new(&points).map_err(|e| t.fault(key, &e.to_string()))?;
             Ok((
                 "B–H table".into(),
                 Material::Saturable(Arc::new(SaturationLaw::Table(table))),
@@ -279,6 +285,19 @@ fn bh_points(t: &Section) -> Result<Vec<[f64; 2]>, CaseError> {
     Ok(h.into_iter().zip(b).map(|(h, b)| [h, b]).collect())
 }
 
+/// Largest relative permeability accepted. The most permeable soft alloys reach a maximum μr
+/// of about 1e6 (typical value, from memory); far above it a knee law's Newton iteration fails
+/// (μmax = 1e308 ended in exit code 3 instead of a named fault).
+const MAX_MU_R: f64 = 1e7;
+
+/// Rejects a relative permeability above [`MAX_MU_R`].
+fn check_mu_r(s: &Section, key: &str, mu: f64) -> Result<(), CaseError> {
+    if mu > MAX_MU_R {
+        return Err(s.fault(key, &format!("{mu:e} is above the supported 1e7")));
+    }
+    Ok(())
+}
+
 /// An analytic law from `[core.law]`.
 fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
     let kind = t.string("kind")?.ok_or_else(|| {
@@ -302,6 +321,7 @@ fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
         if mu <= 1.0 {
             return Err(t.fault("initial_mu_r", &format!("{mu} must be above 1")));
         }
+        check_mu_r(t, "initial_mu_r", mu)?;
         Ok(mu)
     };
     Ok(match kind.as_str() {
@@ -320,6 +340,7 @@ fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
             let js = saturation()?;
             let mu_i = initial()?;
             let mu_max = required("max_mu_r", Dimension::Dimensionless)?;
+            check_mu_r(t, "max_mu_r", mu_max)?;
             if mu_max < mu_i {
                 return Err(t.fault(
                     "max_mu_r",
@@ -373,9 +394,17 @@ fn parse_winding(s: &Section, index: usize) -> Result<Winding, CaseError> {
     if turns <= 0.0 {
         return Err(s.fault("turns", &format!("{turns} must be positive")));
     }
+    // Far beyond any real winding (common practice: fine-wire search coils stay below 1e6
+    // turns); larger counts only overflow the current density.
+    if turns > 1e9 {
+        return Err(s.fault("turns", &format!("{turns:e} is above the supported 1e9")));
+    }
     let inner_radius = s
         .quantity("inner_radius", Dimension::Length)?
         .ok_or_else(|| s.fault("inner_radius", "missing"))?;
+    if inner_radius > 0.0 {
+        crate::units::check_size(inner_radius).map_err(|e| s.fault("inner_radius", &e))?;
+    }
     if inner_radius < 0.0 {
         return Err(s.fault("inner_radius", "must not be negative"));
     }

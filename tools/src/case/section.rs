@@ -72,6 +72,7 @@ impl<'a> Section<'a> {
         if !v.is_finite() {
             return Err(self.fault(key, "must be finite"));
         }
+        units::check_magnitude(v, dim).map_err(|e| self.fault(key, &e))?;
         Ok(Some(v))
     }
 
@@ -94,11 +95,11 @@ impl<'a> Section<'a> {
                     Value::String(s) => units::parse(s, dim).map_err(|e| self.fault(&at, &e))?,
                     _ => return Err(self.fault(&at, &format!("must be {dim}"))),
                 };
-                if x.is_finite() {
-                    Ok(x)
-                } else {
-                    Err(self.fault(&at, "must be finite"))
+                if !x.is_finite() {
+                    return Err(self.fault(&at, "must be finite"));
                 }
+                units::check_magnitude(x, dim).map_err(|e| self.fault(&at, &e))?;
+                Ok(x)
             })
             .collect()
     }
@@ -106,6 +107,10 @@ impl<'a> Section<'a> {
     pub(super) fn positive(&self, key: &str, dim: Dimension) -> Result<Option<f64>, CaseError> {
         match self.quantity(key, dim)? {
             Some(v) if v <= 0.0 => Err(self.fault(key, &format!("{v} must be positive"))),
+            Some(v) if dim == Dimension::Length => {
+                units::check_size(v).map_err(|e| self.fault(key, &e))?;
+                Ok(Some(v))
+            }
             other => Ok(other),
         }
     }
