@@ -54,6 +54,18 @@ fn expect_fault(name: &str, toml: &str, needles: &[&str]) {
     let _ = std::fs::remove_dir_all(&dir);
 }
 
+/// Runs `axicore ARGS`, asserts exit code 2 with a one-line message, and returns it.
+fn expect_option_fault(args: &[&str]) -> String {
+    let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
+        .args(args)
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr).to_string();
+    assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
+    assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
+    err
+}
+
 #[test]
 fn malformed_toml_is_reported_with_line_and_column() {
     expect_fault("syntax", "[core\nshape = 1", &["line 1", "malformed TOML"]);
@@ -209,13 +221,7 @@ fn probe_points_outside_the_mesh_name_their_option_and_write_nothing() {
             "--line",
         ),
     ] {
-        let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
-            .args(&args)
-            .output()
-            .unwrap();
-        let err = String::from_utf8_lossy(&out.stderr);
-        assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
-        assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
+        let err = expect_option_fault(&args);
         assert!(err.contains(option) && err.contains("outside"), "{err}");
         assert!(!csv.exists(), "{args:?} wrote {csv:?}");
     }
@@ -226,36 +232,54 @@ fn probe_points_outside_the_mesh_name_their_option_and_write_nothing() {
 fn finite_but_absurd_magnitudes_are_refused_with_the_key() {
     // 1e308 m overflowed the air sphere and 1e-300 m fell below the triangulator's
     // resolution: both failed inside the mesher with exit code 1 and no key named.
-    expect_fault(
-        "huge-length",
-        &GOOD.replace("length = \"70 mm\"", "length = \"1e308 mm\""),
-        &["core.length", "above the supported magnitude 1 km"],
-    );
-    expect_fault(
-        "tiny-length",
-        &GOOD.replace("length = \"70 mm\"", "length = \"1e-300 mm\""),
-        &["core.length", "below the supported size 1 µm"],
-    );
-    expect_fault(
-        "huge-current",
-        &GOOD.replace("\"40 mA\"", "1e308"),
-        &["winding[1].current", "above the supported magnitude 1 MA"],
-    );
-    expect_fault(
-        "huge-turns",
-        &GOOD.replace("turns = 100", "turns = 1e308"),
-        &["winding[1].turns", "above the supported 1e9"],
-    );
-    expect_fault(
-        "huge-mu",
-        &GOOD.replace("material = \"nickel-iron-80\"", "mu_r = 1e308"),
-        &["core.mu_r", "above the supported 1e7"],
-    );
-    expect_fault(
-        "tiny-inner-radius",
-        &GOOD.replace("\"4.2 mm\"", "1e-300"),
-        &["winding[1].inner_radius", "below the supported size"],
-    );
+    let length = "length = \"70 mm\"";
+    let nickel = "material = \"nickel-iron-80\"";
+    for (name, from, to, key, fault) in [
+        (
+            "huge-length",
+            length,
+            "length = \"1e308 mm\"",
+            "core.length",
+            "above the supported magnitude 1 km",
+        ),
+        (
+            "tiny-length",
+            length,
+            "length = \"1e-300 mm\"",
+            "core.length",
+            "below the supported size 1 µm",
+        ),
+        (
+            "huge-current",
+            "\"40 mA\"",
+            "1e308",
+            "winding[1].current",
+            "above the supported magnitude 1 MA",
+        ),
+        (
+            "huge-turns",
+            "turns = 100",
+            "turns = 1e308",
+            "winding[1].turns",
+            "above the supported 1e9",
+        ),
+        (
+            "huge-mu",
+            nickel,
+            "mu_r = 1e308",
+            "core.mu_r",
+            "above the supported 1e7",
+        ),
+        (
+            "tiny-inner-radius",
+            "\"4.2 mm\"",
+            "1e-300",
+            "winding[1].inner_radius",
+            "below the supported size",
+        ),
+    ] {
+        expect_fault(name, &GOOD.replace(from, to), &[key, fault]);
+    }
 }
 
 #[test]
@@ -273,13 +297,7 @@ fn absurd_option_values_are_refused_by_option() {
             "--point: 1e308 (SI) is above",
         ),
     ] {
-        let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
-            .args(&args)
-            .output()
-            .unwrap();
-        let err = String::from_utf8_lossy(&out.stderr);
-        assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
-        assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
+        let err = expect_option_fault(&args);
         assert!(err.contains(needle), "{args:?}: {err}");
     }
 }
