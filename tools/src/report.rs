@@ -323,7 +323,7 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
         ) {
             let _ = writeln!(
                 s,
-                "  saturation               peak |B| is {:.1} % of B_sat, in {place} (where the core saturates first); {:.1} % of the core volume above 90 % of B_sat",
+                "  saturation               peak |B| is {:.1} % of B_sat, in {place} (where the core saturates first)\n                           {:.1} % of the core volume above 90 % of B_sat",
                 100.0 * ratio,
                 100.0 * frac
             );
