@@ -562,7 +562,8 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
                 }
             };
             let outcome = match threads {
-                // (More threads than this only cost start-up time: 100 000 took over a minute.)
+                // (A pool larger than this only costs start-up time: 1024 threads take ~6 s
+                // on the example, against 0.2 s for 2.)
                 Some(n) if !(1..=MAX_THREADS).contains(&n) => {
                     return Err(input_error(format!(
                         "--threads: {n} must be from 1 to {MAX_THREADS}"

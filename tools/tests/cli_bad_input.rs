@@ -284,8 +284,8 @@ fn finite_but_absurd_magnitudes_are_refused_with_the_key() {
 
 #[test]
 fn absurd_option_values_are_refused_by_option() {
-    // `--to 1e308A` reached Newton as a NaN residual (exit code 3); `--threads 100000` spent
-    // over a minute starting threads.
+    // `--to 1e308A` reached Newton as a NaN residual (exit code 3); `--threads` is capped at
+    // 1024 (a larger pool only costs start-up time).
     for (args, needle) in [
         (vec!["ramp", "--to", "1e308A"], "--to: 1e308 (SI) is above"),
         (

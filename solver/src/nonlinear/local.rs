@@ -134,6 +134,7 @@ impl Model {
         } else {
             Tangent::None
         };
+        self.init_linear_parts();
         let terms: Vec<(Local, LocalMatrix)> = patch
             .elements
             .par_iter()

@@ -18,6 +18,7 @@ impl Model {
         exc: Excitation<'_>,
         tangent: Tangent,
     ) -> Vec<(Local, LocalMatrix)> {
+        self.init_linear_parts();
         self.geom
             .par_iter()
             .enumerate()
@@ -64,8 +65,16 @@ impl Model {
         }
     }
 
+    /// Builds [`Self::linear_parts`] if not yet built. Call it before a parallel loop that
+    /// reaches `linear_parts`: built there, its own parallel build runs inside a worker whose
+    /// siblings all wait on the same lazy cell, and the pool deadlocks (seen with 8–1024
+    /// threads, and with 64 from `RAYON_NUM_THREADS`).
+    pub(super) fn init_linear_parts(&self) {
+        let _ = self.linear_parts();
+    }
+
     /// Per element, the constant stiffness of a linear material (None for saturating ones),
-    /// built on first use.
+    /// built on first use (see [`Self::init_linear_parts`]).
     pub(super) fn linear_parts(&self) -> &[Option<LinearElement>] {
         self.linear_elements.get_or_init(|| {
             self.geom
