@@ -518,7 +518,9 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             let file = case_name(&case);
             if let Some(t) = max_seconds {
                 if !(t.is_finite() && t > 0.0) {
-                    return Err(input_error(format!("--max-seconds: {t} must be positive")));
+                    return Err(input_error(format!(
+                        "--max-seconds: {t} must be positive and finite"
+                    )));
                 }
             }
             let refine = match refine.as_str() {

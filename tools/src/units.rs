@@ -57,7 +57,8 @@ pub const SMALLEST_SIZE: f64 = 1e-6;
 pub fn check_magnitude(v: f64, dim: Dimension) -> Result<(), String> {
     match largest_magnitude(dim) {
         Some((hi, text)) if v.abs() > hi => Err(format!(
-            "{v:e} (SI) is above the supported magnitude {text}"
+            "{v:e} {} is above the supported magnitude {text}",
+            bases(dim).first().map_or("", |b| b.0)
         )),
         _ => Ok(()),
     }

@@ -85,19 +85,29 @@ fn validate(points: &[[f64; 2]]) -> Result<(), SolverError> {
     for (i, &[h, b]) in points.iter().enumerate() {
         let prev = i.checked_sub(1).map(|j| (j, points[j]));
         if let Some(why) = point_problem(h, b, prev) {
-            let at = format!("B–H point {i} (H = {} A/m, B = {} T)", short(h), short(b));
+            // Numbered from 1, as the case file's h[1], b[1] and the CSV's data rows.
+            let at = format!(
+                "B–H point {} (H = {} A/m, B = {} T)",
+                i + 1,
+                short(h),
+                short(b)
+            );
             return Err(SolverError::BadMaterial(format!("{at}: {why}")));
         }
     }
     Ok(())
 }
 
-/// `v` for a message: plain between 1e-3 and 1e6, else in exponent form (not 300 digits).
+/// `v` for a message, to 7 significant digits: plain between 1e-3 and 1e6, else in exponent
+/// form (not 300 digits).
 fn short(v: f64) -> String {
-    if v == 0.0 || (1e-3..1e6).contains(&v.abs()) {
-        format!("{v}")
+    let s = format!("{v:.6e}");
+    // Round to 7 significant digits, then print the shortest form of that value.
+    let r: f64 = s.parse().unwrap_or(v);
+    if r == 0.0 || (1e-3..1e6).contains(&r.abs()) {
+        format!("{r}")
     } else {
-        format!("{v:e}")
+        format!("{r:e}")
     }
 }
 
@@ -129,26 +139,40 @@ fn point_problem(h: f64, b: f64, prev: Option<(usize, [f64; 2])>) -> Option<Stri
     }
     if b > MAX_MU_R * MU0 * h {
         return Some(format!(
-            "relative permeability B/(μ0 H) = {:e} is above the supported {MAX_MU_R:e}",
-            b / (MU0 * h)
+            "relative permeability B/(μ0 H) = {} is above the supported {MAX_MU_R:e}",
+            short(b / (MU0 * h))
         ));
     }
     let (j, [hp, bp]) = prev?;
     if h <= hp {
-        return Some(format!("H must increase strictly (point {j}: {hp} A/m)"));
+        return Some(format!(
+            "H must increase strictly (point {}: {} A/m)",
+            j + 1,
+            short(hp)
+        ));
     }
     if b <= bp {
-        return Some(format!("B must increase strictly (point {j}: {bp} T)"));
+        return Some(format!(
+            "B must increase strictly (point {}: {} T)",
+            j + 1,
+            short(bp)
+        ));
     }
     if b - bp > MAX_MU_R * MU0 * (h - hp) {
         let mu_diff = (b - bp) / (MU0 * (h - hp));
         return Some(format!(
-            "ΔB/(μ0 ΔH) = {mu_diff:e} from point {j} is above the supported {MAX_MU_R:e}"
+            "ΔB/(μ0 ΔH) = {} from point {} is above the supported {MAX_MU_R:e}",
+            short(mu_diff),
+            j + 1
         ));
     }
     if b - bp < MU0 * (h - hp) * (1.0 - VACUUM_SLACK) {
         let mu_diff = (b - bp) / (MU0 * (h - hp));
-        return Some(format!("ΔB/(μ0 ΔH) = {mu_diff} < 1 from point {j}"));
+        return Some(format!(
+            "ΔB/(μ0 ΔH) = {} < 1 from point {}",
+            short(mu_diff),
+            j + 1
+        ));
     }
     None
 }
@@ -453,7 +477,8 @@ mod tests {
             ("H must", vec![[10.0, 0.5], [10.0, 0.8], [30.0, 0.9]]),
             ("B must", vec![[10.0, 0.5], [20.0, 0.5], [30.0, 0.9]]),
             ("ΔB/(μ0 ΔH)", vec![[10.0, 0.5], [20.0, 0.8], [1e5, 0.9]]),
-            ("point 2 (H = 1.5", vec![[1.0, 0.5], [2.0, 0.8], [1.5, 0.9]]),
+            // Numbered from 1, as h[k] in a case file.
+            ("point 3 (H = 1.5", vec![[1.0, 0.5], [2.0, 0.8], [1.5, 0.9]]),
         ];
         for (what, pts) in cases {
             match BhTable::new(&pts) {

@@ -176,7 +176,26 @@ impl Model {
         let (guess, start) = self.first_order_guess(&first, first_linear, exc, settings)?;
         let mut rest = *settings;
         rest.max_iterations = settings.max_iterations.saturating_sub(spent).max(1);
-        let (sol, mut rep, t) = self.newton_from(guess, exc, &rest)?;
+        let (sol, mut rep, t) = self.newton_from(guess, exc, &rest).map_err(|e| match e {
+            // Report the whole count against the user's limit, not the budget left.
+            SolverError::NotConverged {
+                iterations,
+                residual,
+                reason,
+                history,
+            } if reason.starts_with("iteration limit") => SolverError::NotConverged {
+                iterations: iterations + spent + warm_spent,
+                residual,
+                reason: format!(
+                    "iteration limit {} reached (counting {} before the restart from the \
+                         first-order field)",
+                    settings.max_iterations,
+                    spent + warm_spent
+                ),
+                history,
+            },
+            other => other,
+        })?;
         rep.iterations += spent + warm_spent;
         rep.abandoned_iterations = spent + warm_spent;
         rep.start_iterations = start.iterations;

@@ -394,8 +394,8 @@ fn parse_winding(s: &Section, index: usize) -> Result<Winding, CaseError> {
     if turns <= 0.0 {
         return Err(s.fault("turns", &format!("{turns} must be positive")));
     }
-    // Far beyond any real winding (common practice: fine-wire search coils stay below 1e6
-    // turns); larger counts only overflow the current density.
+    // A plausibility bound, far beyond any real winding (common practice: fine-wire search
+    // coils stay below 1e6 turns).
     if turns > 1e9 {
         return Err(s.fault("turns", &format!("{turns:e} is above the supported 1e9")));
     }
