@@ -404,6 +404,11 @@ fn ramp_command(
             "--steps: {steps} must be from 1 to 10000"
         )));
     }
+    let outputs: Vec<(&str, &std::path::Path)> = [("--csv", &csv), ("--svg", &svg)]
+        .into_iter()
+        .filter_map(|(o, p)| p.as_deref().map(|p| (o, p)))
+        .collect();
+    output::check_paths(&outputs, Some(std::path::Path::new(file))).map_err(input_error)?;
     if case.windings.first().is_none_or(|w| w.current == 0.0) {
         return Err(input_error(
             "ramp: the first winding must exist and carry a nonzero current (it sets the scale)"
@@ -455,11 +460,12 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             json,
         } => ramp_command(&load(&case)?, &case_name(&case), &to, steps, csv, svg, json),
         Command::Mesh { case, vtk } => {
+            let file = case_name(&case);
+            if let Some(v) = &vtk {
+                output::check_paths(&[("--vtk", v)], case.as_deref()).map_err(input_error)?;
+            }
             let case = load(&case)?;
-            let d = discretise(&case).map_err(|e| Failure {
-                code: 1,
-                message: e.to_string(),
-            })?;
+            let d = discretise(&case).map_err(|e| run_failure(e, &file))?;
             let mut st = d.mesh.stats();
             (st.min_angle_deg, st.max_aspect_ratio) =
                 axicore::pipeline::corner_quality(&d.problem.mesh);
@@ -516,6 +522,15 @@ fn dispatch(cli: Cli) -> Result<(), Failure> {
             history_svg,
         } => {
             let file = case_name(&case);
+            let outputs: Vec<(&str, &std::path::Path)> = [
+                ("--vtk", &vtk),
+                ("--csv", &csv),
+                ("--history-svg", &history_svg),
+            ]
+            .into_iter()
+            .filter_map(|(o, p)| p.as_deref().map(|p| (o, p)))
+            .collect();
+            output::check_paths(&outputs, case.as_deref()).map_err(input_error)?;
             if let Some(t) = max_seconds {
                 if !(t.is_finite() && t > 0.0) {
                     return Err(input_error(format!(

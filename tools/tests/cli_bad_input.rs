@@ -301,3 +301,64 @@ fn absurd_option_values_are_refused_by_option() {
         assert!(err.contains(needle), "{args:?}: {err}");
     }
 }
+
+#[test]
+fn bad_output_paths_are_refused_before_any_work_and_write_nothing() {
+    // Found only when writing, a bad path cost the whole solve (exit code 1) and could leave
+    // the outputs renamed before it; `--vtk CASE` overwrote the case file.
+    let dir = std::env::temp_dir().join(format!("axicore-bad-out-{}", std::process::id()));
+    std::fs::create_dir_all(dir.join("sub")).unwrap();
+    let case = dir.join("case.toml");
+    std::fs::write(&case, GOOD).unwrap();
+    let p = |name: &str| dir.join(name).to_str().unwrap().to_string();
+    let (c, vtu, sub, missing) = (p("case.toml"), p("a.vtu"), p("sub"), p("none/x.vtu"));
+    for (args, needle) in [
+        (vec!["solve", &c, "--vtk", &missing], "does not exist"),
+        (
+            vec!["solve", &c, "--vtk", &c],
+            "would overwrite the case file",
+        ),
+        (
+            vec![
+                "solve",
+                &c,
+                "--vtk",
+                &vtu,
+                "--line",
+                "0,0:1mm,0:3",
+                "--csv",
+                &sub,
+            ],
+            "is a directory",
+        ),
+        (
+            vec![
+                "solve",
+                &c,
+                "--vtk",
+                &vtu,
+                "--line",
+                "0,0:1mm,0:3",
+                "--csv",
+                &vtu,
+            ],
+            "is also the --vtk file",
+        ),
+        (
+            vec!["ramp", &c, "--to", "1A", "--csv", &vtu, "--svg", &sub],
+            "is a directory",
+        ),
+        (vec!["mesh", &c, "--vtk", &missing], "does not exist"),
+    ] {
+        let err = expect_option_fault(&args);
+        assert!(err.contains(needle), "{args:?}: {err}");
+        let mut names: Vec<_> = std::fs::read_dir(&dir)
+            .unwrap()
+            .map(|e| e.unwrap().file_name().into_string().unwrap())
+            .collect();
+        names.sort();
+        assert_eq!(names, ["case.toml", "sub"], "{args:?} wrote files");
+        assert_eq!(std::fs::read_to_string(&case).unwrap(), GOOD);
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -476,8 +476,13 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         ));
     }
     let arc_tolerance = s.positive("arc_tolerance", Dimension::Dimensionless)?;
-    if arc_tolerance.is_some_and(|t| t > 0.05) {
-        return Err(s.fault("arc_tolerance", "must be ≤ 0.05 (relative chord sagitta)"));
+    // Below 1e-10 the polygon of a curved outline needs more segments than any mesh cap allows
+    // (1e-300 overflowed the segment count).
+    if arc_tolerance.is_some_and(|t| !(1e-10..=0.05).contains(&t)) {
+        return Err(s.fault(
+            "arc_tolerance",
+            "must be from 1e-10 to 0.05 (relative chord sagitta)",
+        ));
     }
     let fineness = s
         .positive("fineness", Dimension::Dimensionless)?
