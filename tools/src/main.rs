@@ -171,7 +171,36 @@ fn emit_text(text: String) {
 }
 
 fn main() -> ExitCode {
-    let cli = Cli::parse();
+    let cli = match Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(e) => {
+            use clap::error::ErrorKind;
+            if matches!(
+                e.kind(),
+                ErrorKind::DisplayHelp
+                    | ErrorKind::DisplayVersion
+                    | ErrorKind::DisplayHelpOnMissingArgumentOrSubcommand
+            ) {
+                e.exit();
+            }
+            // One line, as for every other input fault: clap's first line names the option
+            // and the fault; its usage block and tips follow on further lines.
+            let text = e.render().to_string();
+            let mut lines = text.lines();
+            let mut first = lines.next().unwrap_or("bad arguments").to_string();
+            if first.ends_with(':') {
+                // "the following required arguments were not provided:" lists them below.
+                let listed: Vec<&str> = lines
+                    .take_while(|l| !l.trim().is_empty())
+                    .map(str::trim)
+                    .collect();
+                first = format!("{first} {}", listed.join(", "));
+            }
+            let first = first.strip_prefix("error: ").unwrap_or(&first);
+            eprintln!("axicore: error: {first} (see axicore --help)");
+            return ExitCode::from(2);
+        }
+    };
     match dispatch(cli) {
         Ok(()) => ExitCode::SUCCESS,
         Err(f) => {

@@ -362,3 +362,17 @@ fn bad_output_paths_are_refused_before_any_work_and_write_nothing() {
     }
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn malformed_options_are_one_line_faults() {
+    // clap's own messages carry a usage block and tips over 3–7 lines.
+    for (args, needle) in [
+        (vec!["solve", "--threads", "abc"], "--threads"),
+        (vec!["ramp"], "--to <CURRENT>"),
+        (vec!["solve", "--bogus"], "--bogus"),
+        (vec!["frobnicate"], "frobnicate"),
+    ] {
+        let err = expect_option_fault(&args);
+        assert!(err.contains(needle), "{args:?}: {err}");
+    }
+}
