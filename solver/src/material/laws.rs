@@ -55,6 +55,13 @@ pub struct Brauer {
     knee: f64,
 }
 
+/// Largest initial relative permeability of an analytic law (as for tables and linear cores:
+/// the most permeable soft alloys reach about 1e6, typical value, from memory).
+const MAX_MU_R: f64 = 1e7;
+/// Smallest saturation flux density of an analytic law, T (soft magnetic materials saturate
+/// at 0.2–2.4 T, typical values, from memory; far below, Newton met NaN residuals).
+const MIN_SATURATION: f64 = 1e-3;
+
 impl Brauer {
     /// The law ν(B²) = k1·exp(k2 B²) + k3 with k1, k3 in m/H and k2 in 1/T².
     pub fn new(k1: f64, k2: f64, k3: f64) -> Result<Self, SolverError> {
@@ -70,17 +77,28 @@ impl Brauer {
                 k1 + k3
             )));
         }
+        if (k1 + k3) * MU0 * MAX_MU_R < 1.0 {
+            return Err(SolverError::BadMaterial(format!(
+                "Brauer initial relative permeability 1/(μ0 (k1 + k3)) = {:.3e} is above the \
+                 supported {MAX_MU_R:e}",
+                1.0 / (MU0 * (k1 + k3))
+            )));
+        }
         if k1 * k2 == 0.0 {
             return Err(SolverError::BadMaterial(
                 "Brauer law with k1·k2 = 0 never saturates; use a linear μr".into(),
             ));
         }
-        Ok(Self {
-            k1,
-            k2,
-            k3,
-            knee: brauer_knee(k1, k2, k3),
-        })
+        let knee = brauer_knee(k1, k2, k3);
+        // Far below any soft magnetic material's saturation: the law would be vacuum-like at
+        // every field the solver meets (k2 = 1e300 ended in a singular system, exit code 1).
+        if !(knee >= MIN_SATURATION) {
+            return Err(SolverError::BadMaterial(format!(
+                "Brauer law reaches the vacuum slope at B = {knee:.3e} T, below the supported \
+                 {MIN_SATURATION} T (k2 too large?)"
+            )));
+        }
+        Ok(Self { k1, k2, k3, knee })
     }
 
     /// The coefficients (k1 in m/H, k2 in 1/T², k3 in m/H).
@@ -122,6 +140,21 @@ fn bad(msg: String) -> Result<(), SolverError> {
     Err(SolverError::BadMaterial(msg))
 }
 
+/// Rejects a saturation below [`MIN_SATURATION`] or a permeability above [`MAX_MU_R`].
+fn check_ranges(js: f64, mu: f64) -> Result<(), SolverError> {
+    if js < MIN_SATURATION {
+        return bad(format!(
+            "saturation polarisation {js:e} T is below the supported {MIN_SATURATION} T"
+        ));
+    }
+    if mu > MAX_MU_R {
+        return bad(format!(
+            "relative permeability {mu:e} is above the supported {MAX_MU_R:e}"
+        ));
+    }
+    Ok(())
+}
+
 impl SaturationLaw {
     /// Checks the parameters.
     pub fn validate(&self) -> Result<(), SolverError> {
@@ -135,7 +168,7 @@ impl SaturationLaw {
                 if !(mu_ri.is_finite() && mu_ri > 1.0) {
                     return bad(format!("initial relative permeability {mu_ri} must be > 1"));
                 }
-                Ok(())
+                check_ranges(js, mu_ri)
             }
             SaturationLaw::Brauer(_) => Ok(()),
             SaturationLaw::Knee { js, mu_i, mu_max } => {
@@ -150,7 +183,7 @@ impl SaturationLaw {
                         "maximum relative permeability {mu_max} must be ≥ the initial {mu_i}"
                     ));
                 }
-                Ok(())
+                check_ranges(js, mu_max)
             }
         }
     }

@@ -314,6 +314,13 @@ fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
         if js <= 0.0 {
             return Err(t.fault("saturation", &format!("{js} T must be positive")));
         }
+        // (The law's own check, named here: soft materials saturate at 0.2–2.4 T.)
+        if js < 1e-3 {
+            return Err(t.fault(
+                "saturation",
+                &format!("{js:e} T is below the supported 1 mT"),
+            ));
+        }
         Ok(js)
     };
     let initial = || -> Result<f64, CaseError> {
