@@ -92,7 +92,7 @@ impl Brauer {
         let knee = brauer_knee(k1, k2, k3);
         // Far below any soft magnetic material's saturation: the law would be vacuum-like at
         // every field the solver meets (k2 = 1e300 ended in a singular system, exit code 1).
-        if !(knee >= MIN_SATURATION) {
+        if knee.is_nan() || knee < MIN_SATURATION {
             return Err(SolverError::BadMaterial(format!(
                 "Brauer law reaches the vacuum slope at B = {knee:.3e} T, below the supported \
                  {MIN_SATURATION} T (k2 too large?)"
