@@ -536,6 +536,25 @@ mod tests {
     }
 
     #[test]
+    fn laws_outside_the_supported_ranges_are_refused() {
+        // Each reached the solver before: singular systems (exit code 1) or NaN residuals.
+        assert!(Brauer::new(1e-300, 2.0, 1e-300).is_err(), "μr ≈ 4e305");
+        assert!(Brauer::new(3.8, 1e300, 396.2).is_err(), "knee at 6e-61 T");
+        assert!(Brauer::new(3.8, 2.17, 396.2).is_ok());
+        let knee = |js, mu_max| {
+            SaturationLaw::Knee {
+                js,
+                mu_i: 3000.0,
+                mu_max,
+            }
+            .validate()
+        };
+        assert!(knee(1e-300, 2e4).is_err());
+        assert!(knee(1.5, 1e308).is_err());
+        assert!(knee(1.5, 2e4).is_ok());
+    }
+
+    #[test]
     fn knee_law_has_the_stated_initial_and_maximum_permeability() {
         let (js, mu_i, mu_max) = (0.8, 30000.0, 200000.0);
         let law = SaturationLaw::Knee { js, mu_i, mu_max };
