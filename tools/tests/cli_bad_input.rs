@@ -376,3 +376,20 @@ fn malformed_options_are_one_line_faults() {
         assert!(err.contains(needle), "{args:?}: {err}");
     }
 }
+
+#[test]
+fn inputs_that_are_not_regular_files_are_refused_without_reading_them() {
+    // `/dev/zero` as a B–H file filled the memory until the process was killed; a named pipe
+    // as the case blocked for ever.
+    expect_fault(
+        "dev-zero",
+        &GOOD.replace(
+            "material = \"nickel-iron-80\"",
+            "[core.bh_curve]\nfile = \"/dev/zero\"",
+        ),
+        &["core.bh_curve.file", "not a regular file"],
+    );
+    let dir = std::env::temp_dir();
+    let err = expect_option_fault(&["solve", dir.to_str().unwrap()]);
+    assert!(err.contains("not a regular file"), "{err}");
+}

@@ -17,11 +17,32 @@ use crate::units::Dimension;
 /// Reads and parses a case file.
 pub fn read_case_file(path: &Path) -> Result<Case, CaseError> {
     let file = path.display().to_string();
-    let text = std::fs::read_to_string(path).map_err(|e| CaseError::Read {
+    let text = read_text(path).map_err(|reason| CaseError::Read {
         file: file.clone(),
-        reason: e.to_string(),
+        reason,
     })?;
     parse_case(&text, &file)
+}
+
+/// Largest case or B–H file read, bytes (a 5000-point table is ~100 kB).
+const MAX_INPUT_BYTES: u64 = 16 << 20;
+
+/// The text of a regular file of at most [`MAX_INPUT_BYTES`]. Why the checks: a named pipe
+/// blocked the read for ever and `/dev/zero` filled the memory until the process was killed.
+fn read_text(path: &Path) -> Result<String, String> {
+    use std::io::Read;
+    let meta = std::fs::metadata(path).map_err(|e| e.to_string())?;
+    if !meta.is_file() {
+        return Err("not a regular file".into());
+    }
+    let mut bytes = Vec::new();
+    std::fs::File::open(path)
+        .and_then(|f| f.take(MAX_INPUT_BYTES + 1).read_to_end(&mut bytes))
+        .map_err(|e| e.to_string())?;
+    if bytes.len() as u64 > MAX_INPUT_BYTES {
+        return Err(format!("larger than {} MiB", MAX_INPUT_BYTES >> 20));
+    }
+    String::from_utf8(bytes).map_err(|_| "stream did not contain valid UTF-8".into())
 }
 
 /// Parses case text; `file` names it in error messages.
@@ -269,7 +290,7 @@ fn bh_points(t: &Section) -> Result<Vec<[f64; 2]>, CaseError> {
         }
         let base = Path::new(t.file).parent().unwrap_or(Path::new("."));
         let path = base.join(&file);
-        let text = std::fs::read_to_string(&path)
+        let text = read_text(&path)
             .map_err(|e| t.fault("file", &format!("cannot read {}: {e}", path.display())))?;
         return crate::bh_csv::parse(&text)
             .map_err(|e| t.fault("file", &format!("{}: {e}", path.display())));
