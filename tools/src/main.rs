@@ -274,6 +274,13 @@ fn run_failure(e: RunError, file: &str) -> Failure {
             "{file}: mesh.max_nodes: the mesh would need more than {limit} nodes; check the units of the lengths (plain numbers are metres) and mesh.fineness"
         ));
     }
+    if let RunError::Mesh(m) = &e {
+        // The case passed validation, so its proportions are what the mesher cannot meet
+        // (e.g. a 100 m × 1 µm spheroid: its tip is sharper than any triangle allows).
+        return input_error(format!(
+            "{file}: core and winding geometry: cannot be meshed: {m}; check the proportions of the core and windings (and mesh.min_angle)"
+        ));
+    }
     let code = match &e {
         RunError::Probe { .. } => 2,
         RunError::Solve(SolverError::NotConverged { .. }) => 3,

@@ -141,6 +141,10 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
     Ok(case)
 }
 
+/// Supported length/diameter of a core.
+const MIN_ASPECT: f64 = 1e-3;
+const MAX_ASPECT: f64 = 1e4;
+
 fn parse_core(s: &Section) -> Result<Core, CaseError> {
     let shape_name = s
         .string("shape")?
@@ -192,6 +196,24 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
             ))
         }
     };
+    if let CoreShape::Rod { length, diameter }
+    | CoreShape::Tube {
+        length, diameter, ..
+    }
+    | CoreShape::Spheroid { length, diameter } = shape
+    {
+        // A plausibility bound (slender search-coil cores reach L/D of a few hundred): a
+        // 100 m × 1 µm spheroid ran for minutes in the mesher or failed there.
+        let ratio = length / diameter;
+        if !(MIN_ASPECT..=MAX_ASPECT).contains(&ratio) {
+            return Err(s.fault(
+                "length",
+                &format!(
+                    "length/diameter = {ratio:.3e} is outside the supported {MIN_ASPECT:e} – {MAX_ASPECT:e}"
+                ),
+            ));
+        }
+    }
     let centre = s.quantity("centre", Dimension::Length)?.unwrap_or(0.0);
     let (material_name, material) = parse_core_material(s)?;
     Ok(Core {
