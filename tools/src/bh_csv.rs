@@ -22,10 +22,13 @@ pub fn parse(text: &str) -> Result<Vec<[f64; 2]>, String> {
         match nums.as_slice() {
             [Some(h), Some(b)] if h.is_finite() && b.is_finite() => points.push([*h, *b]),
             _ => {
+                // At most 60 characters of the line: the message stays one readable line.
+                let shown: String = line.chars().take(60).collect();
+                let more = if line.chars().count() > 60 { "…" } else { "" };
                 return Err(format!(
-                    "line {}: expected two numbers 'H [A/m], B [T]', found '{line}'",
+                    "line {}: expected two numbers 'H [A/m], B [T]', found '{shown}{more}'",
                     i + 1
-                ))
+                ));
             }
         }
     }
