@@ -312,44 +312,37 @@ fn bad_output_paths_are_refused_before_any_work_and_write_nothing() {
     std::fs::write(&case, GOOD).unwrap();
     let p = |name: &str| dir.join(name).to_str().unwrap().to_string();
     let (c, vtu, sub, missing) = (p("case.toml"), p("a.vtu"), p("sub"), p("none/x.vtu"));
+    // A solve writing the VTK file to a.vtu and the --line samples to `csv`.
+    let line_to = |csv: &str| -> Vec<String> {
+        [
+            "solve",
+            &c,
+            "--vtk",
+            &vtu,
+            "--line",
+            "0,0:1mm,0:3",
+            "--csv",
+            csv,
+        ]
+        .map(String::from)
+        .to_vec()
+    };
+    let args_of = |v: &[&str]| v.iter().map(|a| a.to_string()).collect::<Vec<_>>();
     for (args, needle) in [
-        (vec!["solve", &c, "--vtk", &missing], "does not exist"),
+        (args_of(&["solve", &c, "--vtk", &missing]), "does not exist"),
         (
-            vec!["solve", &c, "--vtk", &c],
+            args_of(&["solve", &c, "--vtk", &c]),
             "would overwrite the case file",
         ),
+        (line_to(&sub), "is a directory"),
+        (line_to(&vtu), "is also the --vtk file"),
         (
-            vec![
-                "solve",
-                &c,
-                "--vtk",
-                &vtu,
-                "--line",
-                "0,0:1mm,0:3",
-                "--csv",
-                &sub,
-            ],
+            args_of(&["ramp", &c, "--to", "1A", "--csv", &vtu, "--svg", &sub]),
             "is a directory",
         ),
-        (
-            vec![
-                "solve",
-                &c,
-                "--vtk",
-                &vtu,
-                "--line",
-                "0,0:1mm,0:3",
-                "--csv",
-                &vtu,
-            ],
-            "is also the --vtk file",
-        ),
-        (
-            vec!["ramp", &c, "--to", "1A", "--csv", &vtu, "--svg", &sub],
-            "is a directory",
-        ),
-        (vec!["mesh", &c, "--vtk", &missing], "does not exist"),
+        (args_of(&["mesh", &c, "--vtk", &missing]), "does not exist"),
     ] {
+        let args: Vec<&str> = args.iter().map(String::as_str).collect();
         let err = expect_option_fault(&args);
         assert!(err.contains(needle), "{args:?}: {err}");
         let mut names: Vec<_> = std::fs::read_dir(&dir)
