@@ -6,6 +6,7 @@
 
 use super::invert::solve_increasing;
 use super::table::BhTable;
+use super::{MAX_MU_R, MIN_SATURATION};
 use crate::{SolverError, MU0};
 
 /// A single-valued, isotropic, strictly monotone magnetisation law.
@@ -54,13 +55,6 @@ pub struct Brauer {
     k3: f64,
     knee: f64,
 }
-
-/// Largest initial relative permeability of an analytic law (as for tables and linear cores:
-/// the most permeable soft alloys reach about 1e6, typical value, from memory).
-const MAX_MU_R: f64 = 1e7;
-/// Smallest saturation flux density of an analytic law, T (soft magnetic materials saturate
-/// at 0.2–2.4 T, typical values, from memory; far below, Newton met NaN residuals).
-const MIN_SATURATION: f64 = 1e-3;
 
 impl Brauer {
     /// The law ν(B²) = k1·exp(k2 B²) + k3 with k1, k3 in m/H and k2 in 1/T².

@@ -14,6 +14,16 @@ mod table;
 use std::sync::Arc;
 
 pub use laws::{Brauer, SaturationLaw};
+
+/// Largest relative permeability a material may have (linear μr, a law's initial or maximum
+/// μr, B/(μ0 H) of a table point). The most permeable soft alloys reach about 1e6 (typical
+/// value, from memory); far above, inputs such as μmax = 1e308 or a table point at 1e300 T
+/// reached the solver (Newton failures, singular systems) instead of a named fault.
+pub const MAX_MU_R: f64 = 1e7;
+
+/// Smallest saturation of an analytic law, T. Soft magnetic materials saturate at 0.2–2.4 T
+/// (typical values, from memory); far below, Newton met NaN residuals.
+pub const MIN_SATURATION: f64 = 1e-3;
 pub use table::BhTable;
 
 use crate::{SolverError, MU0};

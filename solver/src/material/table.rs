@@ -14,6 +14,7 @@
 //! on which dH/dB ramps linearly from the interpolant's end slope to 1/μ0, then a straight line
 //! of slope 1/μ0 whose offset B − μ0 H is the saturation polarisation.
 
+use super::MAX_MU_R;
 use crate::{SolverError, MU0};
 
 /// Relative slack in the μr ≥ 1 checks, so that round-off in tabulated deep-saturation points
@@ -63,10 +64,6 @@ pub struct BhTable {
     pieces: Vec<Piece>,
 }
 
-/// Largest relative permeability B/(μ0 H) of a table point. The most permeable soft
-/// alloys reach about 1e6 (typical value, from memory); a point at B = 1e300 T was accepted
-/// and solved before this bound.
-const MAX_MU_R: f64 = 1e7;
 /// Largest differential relative permeability of a table segment: on a steep (square-loop)
 /// digitised curve it runs several times the secant maximum (1.2e7 seen against a secant μr
 /// below 1e7), so the bound is looser.

@@ -3,7 +3,7 @@
 use std::path::Path;
 use std::sync::Arc;
 
-use axicore_solver::material::{BhTable, Brauer, SaturationLaw};
+use axicore_solver::material::{BhTable, Brauer, SaturationLaw, MAX_MU_R, MIN_SATURATION};
 use axicore_solver::{Material, NewtonSettings};
 
 use toml::{Table, Value};
@@ -328,15 +328,11 @@ fn bh_points(t: &Section) -> Result<Vec<[f64; 2]>, CaseError> {
     Ok(h.into_iter().zip(b).map(|(h, b)| [h, b]).collect())
 }
 
-/// Largest relative permeability accepted. The most permeable soft alloys reach a maximum μr
-/// of about 1e6 (typical value, from memory); far above it a knee law's Newton iteration fails
-/// (μmax = 1e308 ended in exit code 3 instead of a named fault).
-const MAX_MU_R: f64 = 1e7;
-
-/// Rejects a relative permeability above [`MAX_MU_R`].
+/// Rejects a relative permeability above the materials' bound, naming the key (the law's own
+/// check would name only the law).
 fn check_mu_r(s: &Section, key: &str, mu: f64) -> Result<(), CaseError> {
     if mu > MAX_MU_R {
-        return Err(s.fault(key, &format!("{mu:e} is above the supported 1e7")));
+        return Err(s.fault(key, &format!("{mu:e} is above the supported {MAX_MU_R:e}")));
     }
     Ok(())
 }
@@ -357,11 +353,11 @@ fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
         if js <= 0.0 {
             return Err(t.fault("saturation", &format!("{js} T must be positive")));
         }
-        // (The law's own check, named here: soft materials saturate at 0.2–2.4 T.)
-        if js < 1e-3 {
+        // (The law's own check, named here.)
+        if js < MIN_SATURATION {
             return Err(t.fault(
                 "saturation",
-                &format!("{js:e} T is below the supported 1 mT"),
+                &format!("{js:e} T is below the supported {MIN_SATURATION} T"),
             ));
         }
         Ok(js)
