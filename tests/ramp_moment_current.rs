@@ -10,7 +10,8 @@ mod common;
 
 use axicore::case::parse_case;
 use axicore::pipeline::RunOptions;
-use axicore::ramp::{csv, ramp};
+use axicore::ramp::ramp;
+use axicore::report::ramp_csv as csv;
 use common::{arctan_rod, rel, solve};
 
 #[test]

@@ -131,6 +131,19 @@ pub enum Stop {
     MeshUnchanged,
 }
 
+impl Stop {
+    /// What stopped refinement, in words.
+    pub fn words(self) -> &'static str {
+        match self {
+            Stop::Tolerance => "the tolerance",
+            Stop::NodeCap => "the node cap",
+            Stop::TimeCap => "the time cap",
+            Stop::ZeroMoment => "a zero moment",
+            Stop::MeshUnchanged => "an unchanged adaptive mesh",
+        }
+    }
+}
+
 /// Refines `case` from its own mesh until the estimated relative dipole error is at most
 /// `tolerance`, or a cap of `caps` stops it (reported in the history).
 pub fn run_to_tolerance(
@@ -139,6 +152,19 @@ pub fn run_to_tolerance(
     tolerance: f64,
     caps: Caps,
     refine: Refine,
+) -> Result<Controlled, RunError> {
+    run_to_tolerance_observed(case, opts, tolerance, caps, refine, &mut |_| {})
+}
+
+/// As [`run_to_tolerance`], calling `on_level` after each level (for progress display; it
+/// cannot change the result).
+pub fn run_to_tolerance_observed(
+    case: &Case,
+    opts: &RunOptions,
+    tolerance: f64,
+    caps: Caps,
+    refine: Refine,
+    on_level: &mut dyn FnMut(&Level),
 ) -> Result<Controlled, RunError> {
     let clock = std::time::Instant::now();
     let max_nodes = caps.max_nodes;
@@ -204,6 +230,7 @@ pub fn run_to_tolerance(
             size,
             newton_iterations: r.newton_iterations,
         });
+        on_level(&levels[levels.len() - 1]);
         let unchanged = levels.len() >= 2 && {
             let l = &levels[levels.len() - 2];
             l.nodes == r.nodes && l.unknowns == r.unknowns

@@ -1,19 +1,23 @@
 //! The `axicore` program as a library: case files, the end-to-end pipeline and reports.
 //!
-//! The command-line front end in `main.rs` is a thin layer over [`pipeline::run`].
+//! The command line (`commands/`, one file per subcommand) is a thin layer over
+//! [`pipeline::run`]; `report/` renders records as text, JSON and CSV, `plot/` draws charts.
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
 pub mod accuracy;
+pub mod apparent;
 pub mod bh_csv;
 pub mod case;
+pub mod commands;
 pub mod geometry;
 pub mod operating_point;
 pub mod output;
 pub mod pipeline;
 pub mod plot;
+pub mod progress;
 pub mod ramp;
-pub mod ramp_plot;
+
 pub mod report;
 pub mod units;
 

@@ -88,6 +88,9 @@ pub struct Figures {
     pub winding: f64,
     /// Moment of the windings with the core ÷ in air (no background).
     pub gain: Option<f64>,
+    /// Flux linkage of each winding due to the windings alone (the background's share
+    /// removed), Wb; equal to `flux_linkage` without a background field.
+    pub own_flux_linkage: Vec<f64>,
     /// Flux linkage of each winding, Wb.
     pub flux_linkage: Vec<f64>,
     /// Incremental (small-signal) inductance matrix dΨ_i/dI_k at this point, H.
@@ -100,6 +103,9 @@ pub struct Figures {
     pub b_sat: Option<f64>,
     /// Volume fraction of the core with |B| > 0.9 B_sat.
     pub saturated_fraction: Option<f64>,
+    /// Small-signal dm/dI of the first winding's current with every winding scaled with it
+    /// (their ratios fixed, as in a ramp), A·m²/A; None without a current in the first winding.
+    pub incremental_moment_per_a: Option<f64>,
 }
 
 /// Computes the figures of a solved point. `scale` is the factor on the case's currents.
@@ -149,8 +155,17 @@ pub fn figures(
     let incremental_inductance = (0..nw)
         .map(|i| (0..nw).map(|k| linkage(&responses[k].1, i)).collect())
         .collect();
-    let flux_linkage = (0..nw).map(|i| linkage(sol, i)).collect();
+    let flux_linkage: Vec<f64> = (0..nw).map(|i| linkage(sol, i)).collect();
+    let i_first = case.windings.first().map_or(0.0, |w| w.current);
+    let incremental_moment_per_a = (i_first != 0.0).then(|| {
+        responses
+            .iter()
+            .zip(&case.windings)
+            .map(|((j, s), w)| w.current / i_first * dipole::incremental_moment(model, sol, s, j))
+            .sum()
+    });
 
+    let mut own_alone = None;
     let gain = if winding == 0.0 {
         None
     } else if case.background_b == 0.0 {
@@ -175,34 +190,93 @@ pub fn figures(
             .iter()
             .map(|p| p.current + p.magnetization)
             .sum();
+        own_alone = Some(alone);
         Some(m / winding)
     };
-
-    let (peak, corner_exclusion, b_sat, saturated_fraction) = match &case.core {
-        Some(c) => {
-            let corners = geometry::core_corners(case);
-            let exclusion = 0.1 * geometry::core_thickness(&c.shape);
-            let pk = peak::peak_b(model, sol, locator, CORE_TAG, &corners, exclusion);
-            let b_sat = c.material.saturation_b();
-            let frac = b_sat.map(|bs| {
-                saturation::fraction_above(model, sol, CORE_TAG, SATURATED_FRACTION_OF_BSAT * bs)
-            });
-            (pk, exclusion, b_sat, frac)
-        }
-        None => (None, 0.0, None, None),
+    let own_flux_linkage = if case.background_b == 0.0 {
+        flux_linkage.clone()
+    } else if let Some(alone) = &own_alone {
+        (0..nw).map(|i| linkage(alone, i)).collect()
+    } else {
+        // Linear core: superposition, Ψ_own = Σ_k L_ik I_k.
+        (0..nw)
+            .map(|i| {
+                (0..nw)
+                    .map(|k| linkage(&responses[k].1, i) * case.windings[k].current * scale)
+                    .sum()
+            })
+            .collect()
     };
+
+    let CoreSaturation {
+        peak,
+        corner_exclusion,
+        b_sat,
+        saturated_fraction,
+    } = core_saturation(model, case, locator, sol);
     Ok(Figures {
         total,
         core,
         winding,
         gain,
+        own_flux_linkage,
         flux_linkage,
         incremental_inductance,
         peak,
         corner_exclusion,
         b_sat,
         saturated_fraction,
+        incremental_moment_per_a,
     })
+}
+
+/// How close the core is to saturation at a solved point.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct CoreSaturation {
+    /// Corner-excluded peak |B| in the core and where (None without a core).
+    pub peak: Option<peak::Peak>,
+    /// Radius of the zone excluded around each sharp core corner, m.
+    pub corner_exclusion: f64,
+    /// Saturation flux density of the core's law, T (None if linear).
+    pub b_sat: Option<f64>,
+    /// Volume fraction of the core with |B| > 0.9 B_sat.
+    pub saturated_fraction: Option<f64>,
+}
+
+/// The core's peak |B| away from its sharp corners (whose field is singular: a raw maximum
+/// there grows without bound under refinement) and its saturated volume fraction.
+pub fn core_saturation(
+    model: &Model,
+    case: &Case,
+    locator: &Locator,
+    sol: &Solution,
+) -> CoreSaturation {
+    match &case.core {
+        Some(c) => {
+            let corners = geometry::core_corners(case);
+            let exclusion = 0.1 * geometry::core_thickness(&c.shape);
+            let b_sat = c.material.saturation_b();
+            CoreSaturation {
+                peak: peak::peak_b(model, sol, locator, CORE_TAG, &corners, exclusion),
+                corner_exclusion: exclusion,
+                b_sat,
+                saturated_fraction: b_sat.map(|bs| {
+                    saturation::fraction_above(
+                        model,
+                        sol,
+                        CORE_TAG,
+                        SATURATED_FRACTION_OF_BSAT * bs,
+                    )
+                }),
+            }
+        }
+        None => CoreSaturation {
+            peak: None,
+            corner_exclusion: 0.0,
+            b_sat: None,
+            saturated_fraction: None,
+        },
+    }
 }
 
 /// Where in the core a point lies, in words: "middle", "towards an end", "end" by the axial

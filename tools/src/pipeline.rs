@@ -315,23 +315,42 @@ pub fn run_from(
         (ball - total).abs()
     };
     let nw = case.windings.len();
+    let b0 = case.background_b;
     let windings: Vec<WindingReport> = case
         .windings
         .iter()
         .enumerate()
-        .map(|(i, w)| WindingReport {
-            name: w.name.clone(),
-            turns: w.turns,
-            current_A: w.current,
-            air_moment_Am2: w.air_moment(),
-            flux_linkage_Wb: fig.flux_linkage[i],
-            self_inductance_H: Some(fig.incremental_inductance[i][i]),
-            apparent_inductance_H: (w.current != 0.0).then(|| fig.flux_linkage[i] / w.current),
+        .map(|(i, w)| {
+            let background = fig.flux_linkage[i] - fig.own_flux_linkage[i];
+            WindingReport {
+                name: w.name.clone(),
+                turns: w.turns,
+                current_A: w.current,
+                air_moment_Am2: w.air_moment(),
+                current_density_A_per_mm2: w.current_density() * 1e-6,
+                flux_linkage_Wb: fig.flux_linkage[i],
+                own_flux_linkage_Wb: fig.own_flux_linkage[i],
+                background_flux_linkage_Wb: (b0 != 0.0).then_some(background),
+                incremental_inductance_H: Some(fig.incremental_inductance[i][i]),
+                secant_inductance_H: (w.current != 0.0)
+                    .then(|| fig.own_flux_linkage[i] / w.current),
+                sensitivity_V_per_T_Hz: (b0 != 0.0)
+                    .then(|| 2.0 * std::f64::consts::PI * background / b0),
+            }
         })
         .collect();
     let inductance_matrix = (nw > 0).then(|| fig.incremental_inductance.clone());
 
     let b_origin = sol.b_recovered(&model, &locator, [0.0, 0.0])?.2[1];
+    // The applied field (core replaced by vacuum) for the apparent permeability: one more
+    // numeric factorisation on the same pattern.
+    let apparent = match &case.core {
+        Some(_) if fig.winding != 0.0 || b0 != 0.0 => {
+            let applied = model.applied_field(&j_full, b0)?;
+            crate::apparent::apparent(&model, case, &sol, &applied)
+        }
+        _ => None,
+    };
     let core = case.core.as_ref().map(|c| {
         let centre_r = match c.shape {
             crate::case::CoreShape::Tube { bore, diameter, .. } => 0.25 * (bore + diameter),
@@ -341,10 +360,12 @@ pub fn run_from(
             .b_recovered(&model, &locator, [centre_r, c.centre])
             .map(|(_, _, b)| b)
             .unwrap_or([f64::NAN; 2]);
+        let n_ell = crate::apparent::ellipsoid_factor(crate::apparent::aspect_ratio(&c.shape));
+        let mu_i = c.material.initial_mu_r();
         CoreReport {
             shape: c.shape.to_string(),
             material: c.material_name.clone(),
-            initial_mu_r: c.material.initial_mu_r(),
+            initial_mu_r: mu_i,
             saturation_b_T: fig.b_sat,
             volume_m3: flux::region_volume(&model, CORE_TAG),
             exact_volume_m3: c.shape.volume(),
@@ -358,8 +379,20 @@ pub fn run_from(
             peak_location: fig
                 .peak
                 .map(|p| operating_point::axial_position_words(case, p.at).to_string()),
+            length_over_diameter: crate::apparent::aspect_ratio(&c.shape),
+            average_b_z_T: apparent.map_or(0.0, |a| a.b_avg),
+            applied_h_average_A_per_m: apparent.map_or(0.0, |a| a.applied_h_avg),
+            apparent_permeability: apparent.and_then(|a| a.mu_app),
+            ellipsoid_demagnetizing_factor: n_ell,
+            ellipsoid_apparent_permeability: mu_i / (1.0 + n_ell * (mu_i - 1.0)),
+            effective_demagnetizing_factor: apparent.and_then(|a| a.effective_n),
         }
     });
+    let flux_concentration = core
+        .as_ref()
+        .filter(|_| b0 != 0.0)
+        .map(|c| c.b_centre_T / b0.abs());
+    let case_cautions = crate::report::case_cautions(case, core.as_ref(), &windings);
     let points = opts
         .points
         .iter()
@@ -428,10 +461,15 @@ pub fn run_from(
         winding_dipole_moment_Am2: fig.winding,
         dipole_check_Am2: ball,
         dipole_estimator_difference: difference,
-        apparent_gain: fig.gain,
+        moment_gain: if case.core.is_some() { fig.gain } else { None },
         b_origin_T: b_origin,
-        inductance_H: windings.first().and_then(|w| w.self_inductance_H),
-        apparent_inductance_H: windings.first().and_then(|w| w.apparent_inductance_H),
+        inductance_H: windings.first().and_then(|w| w.incremental_inductance_H),
+        secant_inductance_H: windings
+            .first()
+            .filter(|_| b0 == 0.0)
+            .and_then(|w| w.secant_inductance_H),
+        flux_concentration,
+        case_cautions,
         converged: true,
         newton_iterations: newton.as_ref().map_or(0, |n| n.iterations),
         newton_start_iterations: newton.as_ref().map_or(0, |n| n.start_iterations),

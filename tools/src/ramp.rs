@@ -2,10 +2,19 @@
 //! solve starting from the previous field (continuation), on one mesh.
 //!
 //! Every winding's current is scaled by the same factor, so the first winding goes from 0 to
-//! the requested current. The knee is where the current-driven moment falls 10 % below the
-//! straight line of the low-current slope (the small-signal moment per ampere at zero current).
-
-use std::fmt::Write as _;
+//! the requested current. What the curve says:
+//! * the **knee**: the first current at which the incremental moment per ampere dm/dI (from
+//!   the tangent operator at each step) has fallen to half of the largest value met on the
+//!   ramp so far. It holds for laws whose permeability first rises with field (steels), where
+//!   the slope at zero current is not the largest;
+//! * the **line knee**: where the moment falls 10 % below the straight line of the
+//!   zero-current slope, reported only where that slope is the ramp's largest (a curve that
+//!   only bends down), as otherwise the curve runs above that line first;
+//! * the **saturation onset**: the current at which the corner-excluded peak |B| in the core
+//!   reaches 90 % of B_sat, and where.
+//!
+//! Each is interpolated linearly between the two steps that bracket it, so it moves with the
+//! step count only by that interpolation's error.
 
 use axicore_solver::locate::Locator;
 use axicore_solver::post::dipole;
@@ -13,11 +22,17 @@ use axicore_solver::Model;
 use serde::Serialize;
 
 use crate::case::Case;
-use crate::operating_point::{self, axial_position_words};
+use crate::operating_point::{self, axial_position_words, SATURATED_FRACTION_OF_BSAT};
 use crate::pipeline::{discretise, RunError};
 
-/// The knee criterion: the moment is this fraction of the low-current straight line.
+/// The line-knee criterion: the moment is this fraction of the zero-current straight line.
 pub const KNEE_RATIO: f64 = 0.9;
+
+/// The knee criterion: dm/dI is this fraction of the largest dm/dI met on the ramp.
+pub const KNEE_SLOPE_RATIO: f64 = 0.5;
+
+/// The zero-current slope counts as the ramp's largest within this relative margin.
+const SLOPE_AT_ZERO_IS_LARGEST: f64 = 1e-3;
 
 /// One point of the curve.
 #[allow(non_snake_case)]
@@ -29,18 +44,33 @@ pub struct RampRow {
     pub dipole_moment_Am2: f64,
     /// Moment of the core magnetisation, A·m².
     pub core_dipole_moment_Am2: f64,
-    /// Moment with the core ÷ the windings in air.
-    pub apparent_gain: Option<f64>,
+    /// Moment with the core ÷ the windings' own moment (in air).
+    pub moment_gain: Option<f64>,
+    /// Small-signal dm/dI at this current, A·m²/A.
+    pub incremental_moment_Am2_per_A: f64,
     /// Corner-excluded peak |B| in the core, T.
     pub peak_core_b_T: Option<f64>,
     /// Volume fraction of the core above 90 % of B_sat.
     pub saturated_fraction: Option<f64>,
     /// dΨ/dI of the first winding, H.
     pub incremental_inductance_H: f64,
-    /// Ψ/I of the first winding, H.
-    pub apparent_inductance_H: f64,
+    /// Ψ/I of the first winding, H (None with a background field, whose flux is not the
+    /// winding's doing).
+    pub secant_inductance_H: Option<f64>,
     /// Newton iterations of this step (0 when linear).
     pub newton_iterations: usize,
+}
+
+/// Where the core first reaches 90 % of B_sat on the ramp.
+#[allow(non_snake_case)]
+#[derive(Debug, Clone, Serialize, PartialEq)]
+pub struct SaturationOnset {
+    /// Current of the first winding, A (interpolated between steps).
+    pub current_A: f64,
+    /// Where, in words.
+    pub place: String,
+    /// Where, (r, z) in m: the peak of the first step at or past the onset.
+    pub at_m: [f64; 2],
 }
 
 /// The whole curve and what it says.
@@ -53,12 +83,17 @@ pub struct RampResult {
     pub zero_current_moment_Am2: f64,
     /// Small-signal moment per ampere at zero current, A·m²/A.
     pub low_current_slope_Am2_per_A: f64,
-    /// Current where the driven moment is 90 % of the low-current line, A (None: not reached).
+    /// Largest small-signal moment per ampere on the ramp, A·m²/A, and the current there, A.
+    pub max_incremental_moment_Am2_per_A: (f64, f64),
+    /// Where dm/dI has fallen to half its largest value so far, A (None: not reached).
     pub knee_current_A: Option<f64>,
-    /// First current at which part of the core exceeds 90 % of B_sat, A.
-    pub first_saturation_current_A: Option<f64>,
-    /// Where the core saturates first, in words and (r, z) in m.
-    pub first_saturation_at: Option<(String, [f64; 2])>,
+    /// Where the moment is 90 % of the zero-current line, A; None where not reached or not
+    /// meaningful (the zero-current slope is not the ramp's largest).
+    pub line_knee_current_A: Option<f64>,
+    /// Whether the zero-current slope is the ramp's largest (the line knee is meaningful).
+    pub slope_largest_at_zero: bool,
+    /// Where the corner-excluded peak |B| reaches 90 % of B_sat (None: not on this ramp).
+    pub saturation_onset: Option<SaturationOnset>,
     /// The points.
     pub rows: Vec<RampRow>,
     /// Mesh nodes.
@@ -68,6 +103,17 @@ pub struct RampResult {
 /// Solves the curve for `steps` equal current steps from 0 to `to` (A, first winding; a
 /// magnitude: the sign of the case's current sets the direction).
 pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> {
+    ramp_observed(case, to, steps, &mut |_| {})
+}
+
+/// As [`ramp`], calling `on_step` with the number of steps done after each (for progress
+/// display; it cannot change the result).
+pub fn ramp_observed(
+    case: &Case,
+    to: f64,
+    steps: usize,
+    on_step: &mut dyn FnMut(usize),
+) -> Result<RampResult, RunError> {
     let i_case = case.windings.first().map_or(0.0, |w| w.current);
     let d = discretise(case)?;
     let nodes = d.problem.mesh.nodes.len();
@@ -104,9 +150,10 @@ pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> 
     };
     let slope = dipole::incremental_moment(&model, &sol0, &response, &unit);
 
+    let sat0 = operating_point::core_saturation(&model, case, &locator, &sol0);
+    let mut peaks = vec![(0.0, sat0.peak)];
     let mut rows = Vec::with_capacity(steps);
     let mut prev = Some(sol0);
-    let mut first_sat = None;
     for k in 1..=steps {
         // `to` is a magnitude; the ramp runs in the direction of the case's own current.
         let current = i_case.signum() * to.abs() * k as f64 / steps as f64;
@@ -130,38 +177,107 @@ pub fn ramp(case: &Case, to: f64, steps: usize) -> Result<RampResult, RunError> 
             &j,
             scale,
         )?;
-        if first_sat.is_none() && fig.saturated_fraction.is_some_and(|f| f > 0.0) {
-            first_sat = fig.peak.map(|p| (current, p.at));
-        }
+        peaks.push((current, fig.peak));
         rows.push(RampRow {
             current_A: current,
             dipole_moment_Am2: fig.total,
             core_dipole_moment_Am2: fig.core,
-            apparent_gain: fig.gain,
+            moment_gain: fig.gain,
+            incremental_moment_Am2_per_A: fig.incremental_moment_per_a.unwrap_or(0.0),
             peak_core_b_T: fig.peak.map(|p| p.b),
             saturated_fraction: fig.saturated_fraction,
             incremental_inductance_H: fig.incremental_inductance.first().map_or(0.0, |r| r[0]),
-            apparent_inductance_H: fig.flux_linkage.first().map_or(0.0, |p| p / current),
+            secant_inductance_H: (case.background_b == 0.0)
+                .then(|| fig.flux_linkage.first().map_or(0.0, |p| p / current)),
             newton_iterations: newton.map_or(0, |n| n.iterations),
         });
         prev = Some(sol);
+        on_step(k);
     }
-    let knee_current = knee(&rows, m0, slope);
+    let slopes: Vec<(f64, f64)> = std::iter::once((0.0, slope))
+        .chain(
+            rows.iter()
+                .map(|r| (r.current_A, r.incremental_moment_Am2_per_A)),
+        )
+        .collect();
+    let max_slope = slopes
+        .iter()
+        .copied()
+        .fold((0.0, f64::NEG_INFINITY), |a, b| {
+            if b.1.abs() > a.1.abs() {
+                b
+            } else {
+                a
+            }
+        });
+    let largest_at_zero = slope.abs() >= (1.0 - SLOPE_AT_ZERO_IS_LARGEST) * max_slope.1.abs();
+    let onset = sat0.b_sat.and_then(|bs| {
+        saturation_onset(&peaks, SATURATED_FRACTION_OF_BSAT * bs).map(|(i, at)| SaturationOnset {
+            current_A: i,
+            place: axial_position_words(case, at).into(),
+            at_m: at,
+        })
+    });
     Ok(RampResult {
         title: case.title.clone(),
         zero_current_moment_Am2: m0,
         low_current_slope_Am2_per_A: slope,
-        knee_current_A: knee_current,
-        first_saturation_current_A: first_sat.map(|(i, _)| i),
-        first_saturation_at: first_sat.map(|(_, at)| (axial_position_words(case, at).into(), at)),
+        max_incremental_moment_Am2_per_A: (max_slope.1, max_slope.0),
+        knee_current_A: knee(&slopes),
+        line_knee_current_A: largest_at_zero
+            .then(|| line_knee(&rows, m0, slope))
+            .flatten(),
+        slope_largest_at_zero: largest_at_zero,
+        saturation_onset: onset,
         rows,
         nodes,
     })
 }
 
-/// First current where (m − m0)/(slope·I) falls to [`KNEE_RATIO`], interpolated linearly
+/// First current where the slope (current, dm/dI) has fallen to [`KNEE_SLOPE_RATIO`] of the
+/// largest slope met up to there, interpolated linearly between the bracketing steps.
+pub fn knee(slopes: &[(f64, f64)]) -> Option<f64> {
+    let mut largest = 0.0f64;
+    for w in slopes.windows(2) {
+        let ((i0, s0), (i1, s1)) = (w[0], w[1]);
+        largest = largest.max(s0.abs()).max(s1.abs());
+        let target = KNEE_SLOPE_RATIO * largest;
+        if s1.abs() <= target {
+            return Some(if s0.abs() > s1.abs() {
+                i0 + (i1 - i0) * (s0.abs() - target) / (s0.abs() - s1.abs())
+            } else {
+                i1
+            });
+        }
+    }
+    None
+}
+
+/// First current at which the peak |B| (current, peak) reaches `threshold`, interpolated
+/// linearly between the bracketing steps, with the peak's place at the step past it.
+pub fn saturation_onset(
+    peaks: &[(f64, Option<axicore_solver::post::peak::Peak>)],
+    threshold: f64,
+) -> Option<(f64, [f64; 2])> {
+    let b = |p: &Option<axicore_solver::post::peak::Peak>| p.map_or(0.0, |p| p.b);
+    if let Some((i, Some(p))) = peaks.first() {
+        if p.b >= threshold {
+            return Some((*i, p.at));
+        }
+    }
+    peaks.windows(2).find_map(|w| {
+        let ((i0, p0), (i1, p1)) = (&w[0], &w[1]);
+        let (b0, b1) = (b(p0), b(p1));
+        (b1 >= threshold && b0 < threshold).then(|| {
+            let at = p1.map_or([f64::NAN; 2], |p| p.at);
+            (i0 + (i1 - i0) * (threshold - b0) / (b1 - b0), at)
+        })
+    })
+}
+
+/// First current where (m − m0)/(slope·I) falls to [`KNEE_RATIO`] (the line knee), interpolated linearly
 /// between the two steps that bracket it (the ratio is 1 at zero current by definition).
-pub fn knee(rows: &[RampRow], m0: f64, slope: f64) -> Option<f64> {
+pub fn line_knee(rows: &[RampRow], m0: f64, slope: f64) -> Option<f64> {
     let ratio = |r: &RampRow| (r.dipole_moment_Am2 - m0) / (slope * r.current_A);
     let mut last: Option<(f64, f64)> = Some((0.0, 1.0));
     for r in rows {
@@ -175,103 +291,4 @@ pub fn knee(rows: &[RampRow], m0: f64, slope: f64) -> Option<f64> {
         last = Some((r.current_A, q));
     }
     None
-}
-
-/// The curve as CSV (SI units in the header).
-pub fn csv(r: &RampResult) -> String {
-    let mut s = String::from(
-        "current_A,dipole_moment_Am2,core_dipole_moment_Am2,apparent_gain,peak_core_b_T,saturated_fraction,incremental_inductance_H,apparent_inductance_H,newton_iterations\n",
-    );
-    let opt = |v: Option<f64>| v.map_or(String::new(), |x| format!("{x:.9e}"));
-    for row in &r.rows {
-        let _ = writeln!(
-            s,
-            "{:.9e},{:.9e},{:.9e},{},{},{},{:.9e},{:.9e},{}",
-            row.current_A,
-            row.dipole_moment_Am2,
-            row.core_dipole_moment_Am2,
-            opt(row.apparent_gain),
-            opt(row.peak_core_b_T),
-            opt(row.saturated_fraction),
-            row.incremental_inductance_H,
-            row.apparent_inductance_H,
-            row.newton_iterations
-        );
-    }
-    s
-}
-
-/// A readable account of the curve.
-pub fn summary(r: &RampResult) -> String {
-    let mut s = String::new();
-    let _ = writeln!(
-        s,
-        "{} — moment against current ({} nodes)",
-        r.title, r.nodes
-    );
-    let _ = writeln!(
-        s,
-        "low-current slope        {:.6e} A·m²/A",
-        r.low_current_slope_Am2_per_A
-    );
-    match r.knee_current_A {
-        Some(i) => {
-            let _ = writeln!(
-                s,
-                "knee current             {i:.6e} A  (moment 10 % below the low-current line)"
-            );
-            let step = r.rows.first().map_or(0.0, |p| p.current_A.abs());
-            if i.abs() < 5.0 * step {
-                let _ = writeln!(
-                    s,
-                    "                         (coarse: within five steps of zero; more --steps place it better)"
-                );
-            }
-        }
-        None => {
-            let _ = writeln!(s, "knee current             not reached in this range");
-        }
-    }
-    if let (Some(i), Some((words, at))) = (r.first_saturation_current_A, &r.first_saturation_at) {
-        let _ = writeln!(
-            s,
-            "saturates first          at {i:.4e} A, in {words} (r, z) = ({:.4}, {:.4}) m",
-            at[0], at[1]
-        );
-    }
-    if let Some(last) = r.rows.last() {
-        let line = r.zero_current_moment_Am2 + r.low_current_slope_Am2_per_A * last.current_A;
-        let _ = writeln!(
-            s,
-            "at {:.4e} A               moment {:.6e} A·m², {:.1} % of the low-current line",
-            last.current_A,
-            last.dipole_moment_Am2,
-            100.0 * last.dipole_moment_Am2 / line
-        );
-    }
-    let _ = writeln!(s);
-    let _ = writeln!(
-        s,
-        "{:>12} {:>14} {:>10} {:>10} {:>9} {:>12} {:>12} {:>4}",
-        "current/A", "moment/A·m²", "gain", "peak B/T", "sat.frac", "L_inc/H", "L_app/H", "it"
-    );
-    let opt = |v: Option<f64>, p: usize| v.map_or("-".into(), |x| format!("{x:.p$}"));
-    for row in &r.rows {
-        let _ = writeln!(
-            s,
-            "{:>12.4e} {:>14.6e} {:>10} {:>10} {:>9} {:>12.4e} {:>12.4e} {:>4}",
-            row.current_A,
-            row.dipole_moment_Am2,
-            opt(row.apparent_gain, 2),
-            opt(row.peak_core_b_T, 4),
-            opt(row.saturated_fraction, 4),
-            row.incremental_inductance_H,
-            row.apparent_inductance_H,
-            row.newton_iterations
-        );
-    }
-    let _ = writeln!(s);
-    s.push_str(crate::report::CAUTIONS);
-    s.push('\n');
-    s
 }

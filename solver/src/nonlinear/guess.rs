@@ -188,6 +188,25 @@ impl Model {
         self.secant_solve(exc, &secant)
     }
 
+    /// The field of currents `j_elem` and the background `b0` with every material replaced by
+    /// vacuum: the applied field a core sees (for its apparent permeability). One numeric
+    /// factorisation on the model's own pattern.
+    pub fn applied_field(&self, j_elem: &[f64], b0: f64) -> Result<Solution, SolverError> {
+        let nu: Vec<Vec<f64>> = self
+            .geom
+            .iter()
+            .map(|g| vec![1.0 / MU0; g.qp.len()])
+            .collect();
+        let a_fixed = self.fixed_values();
+        let exc = Excitation {
+            currents: j_elem,
+            a_fixed: &a_fixed,
+            b0,
+        };
+        let a = self.secant_solve(exc, &nu)?;
+        Ok(Solution { a, b0 })
+    }
+
     /// The linear solve with every saturable material replaced by vacuum (linear ones kept).
     fn vacuum_field(&self, exc: Excitation<'_>) -> Result<Vec<f64>, SolverError> {
         let nu: Vec<Vec<f64>> = (0..self.geom.len())

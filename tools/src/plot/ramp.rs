@@ -1,8 +1,19 @@
 //! The moment–current curve as an SVG plot: the solved moments, the low-current straight line
 //! they would follow without saturation, and the knee.
 
-use crate::plot::{render_svg, Chart, Mark, PlotError, Scale, Series};
+use super::{render_svg, Chart, Mark, PlotError, Scale, Series};
 use crate::ramp::RampResult;
+use crate::report::format::sig;
+
+/// The polyline through `pts` (sorted in x) evaluated at `x`.
+fn interpolate(pts: &[(f64, f64)], x: f64) -> f64 {
+    pts.windows(2)
+        .find(|w| (w[0].0 <= x && x <= w[1].0) || (w[1].0 <= x && x <= w[0].0))
+        .map_or(pts.last().map_or(0.0, |p| p.1), |w| {
+            let t = (x - w[0].0) / (w[1].0 - w[0].0);
+            w[0].1 + t * (w[1].1 - w[0].1)
+        })
+}
 
 /// Draws the curve with the low-current line and the knee (800 × 500 px).
 pub fn moment_current_svg(r: &RampResult) -> Result<String, PlotError> {
@@ -24,17 +35,26 @@ pub fn moment_current_svg(r: &RampResult) -> Result<String, PlotError> {
     ];
     let mut marks = Vec::new();
     if let Some(k) = r.knee_current_A {
-        marks.push(Mark::vertical(format!("knee {k:.3} A"), k));
+        marks.push(Mark::vertical(format!("knee {} A", sig(k, 3)), k));
+    }
+    if let Some(o) = &r.saturation_onset {
+        // The dot sits on the curve, interpolated like the onset current itself.
+        let m = interpolate(&fe, o.current_A);
+        marks.push(Mark::point(
+            format!("90 % of B_sat at {} A", sig(o.current_A, 3)),
+            o.current_A,
+            m,
+        ));
     }
     let chart = Chart {
-        title: "Dipole moment against current".into(),
+        title: format!("{}: dipole moment against current", r.title),
         x_label: "current of the first winding / A".into(),
         y_label: "axial dipole moment / A·m²".into(),
         x_scale: Scale::Linear,
         y_scale: Scale::Linear,
         series: vec![
             Series::line("finite-element solution", fe).with_markers(),
-            Series::line("low-current slope (no saturation)", line).dashed(),
+            Series::line("zero-current slope (no saturation)", line).dashed(),
         ],
         marks,
     };

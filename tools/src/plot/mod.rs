@@ -13,7 +13,11 @@ use plotters::prelude::*;
 use plotters::style::{register_font, FontStyle};
 use thiserror::Error;
 
-const FONT_BYTES: &[u8] = include_bytes!("../assets/DejaVuSans.ttf");
+pub mod history;
+pub mod materials;
+pub mod ramp;
+
+const FONT_BYTES: &[u8] = include_bytes!("../../assets/DejaVuSans.ttf");
 const FAMILY: &str = "sans-serif";
 /// Smallest accepted chart, in pixels; below this the label areas leave no room to plot.
 pub const MIN_SIZE: (u32, u32) = (240, 180);
@@ -76,14 +80,15 @@ pub enum Scale {
     Log10,
 }
 
-/// A labelled annotation: a vertical line at `x` across the plot, or a dot at (`x`, `y`).
+/// A labelled annotation: a vertical line at `x`, a horizontal line at `y`, or a dot at
+/// (`x`, `y`).
 #[derive(Debug, Clone, PartialEq)]
 pub struct Mark {
     /// Text written beside the mark, e.g. "knee 0.12 A".
     pub label: String,
-    /// Position on the x axis.
-    pub x: f64,
-    /// `None` for a vertical line, `Some(y)` for a point.
+    /// Position on the x axis (`None` for a horizontal line).
+    pub x: Option<f64>,
+    /// Position on the y axis (`None` for a vertical line).
     pub y: Option<f64>,
 }
 
@@ -92,8 +97,17 @@ impl Mark {
     pub fn vertical(label: impl Into<String>, x: f64) -> Self {
         Self {
             label: label.into(),
-            x,
+            x: Some(x),
             y: None,
+        }
+    }
+
+    /// A horizontal line at `y`.
+    pub fn horizontal(label: impl Into<String>, y: f64) -> Self {
+        Self {
+            label: label.into(),
+            x: None,
+            y: Some(y),
         }
     }
 
@@ -101,7 +115,7 @@ impl Mark {
     pub fn point(label: impl Into<String>, x: f64, y: f64) -> Self {
         Self {
             label: label.into(),
-            x,
+            x: Some(x),
             y: Some(y),
         }
     }
@@ -197,23 +211,51 @@ pub fn render_svg(chart: &Chart, width: u32, height: u32) -> Result<String, Plot
     }
     validate(chart)?;
     ensure_font()?;
-    let (x0, x1) = axis_range(chart, 'x', chart.x_scale)?;
-    let (y0, y1) = axis_range(chart, 'y', chart.y_scale)?;
     let mut svg = String::new();
     {
         let root = SVGBackend::with_string(&mut svg, (width, height)).into_drawing_area();
         root.fill(&WHITE).map_err(draw_err)?;
-        match (chart.x_scale, chart.y_scale) {
-            (Scale::Linear, Scale::Linear) => draw(&root, chart, x0..x1, y0..y1),
-            (Scale::Linear, Scale::Log10) => draw(&root, chart, x0..x1, (y0..y1).log_scale()),
-            (Scale::Log10, Scale::Linear) => draw(&root, chart, (x0..x1).log_scale(), y0..y1),
-            (Scale::Log10, Scale::Log10) => {
-                draw(&root, chart, (x0..x1).log_scale(), (y0..y1).log_scale())
-            }
-        }?;
+        draw_scaled(&root, chart)?;
         root.present().map_err(draw_err)?;
     }
     Ok(svg)
+}
+
+/// Draws `charts` as panels stacked top to bottom in one `width` × `height` pixel SVG
+/// document (each panel gets an equal share of the height).
+pub fn render_svg_stack(charts: &[Chart], width: u32, height: u32) -> Result<String, PlotError> {
+    let n = charts.len().max(1) as u32;
+    if width < MIN_SIZE.0 || height / n < MIN_SIZE.1 {
+        return Err(PlotError::TooSmall(width, height / n));
+    }
+    for chart in charts {
+        validate(chart)?;
+    }
+    ensure_font()?;
+    let mut svg = String::new();
+    {
+        let root = SVGBackend::with_string(&mut svg, (width, height)).into_drawing_area();
+        root.fill(&WHITE).map_err(draw_err)?;
+        for (area, chart) in root.split_evenly((charts.len(), 1)).iter().zip(charts) {
+            draw_scaled(area, chart)?;
+        }
+        root.present().map_err(draw_err)?;
+    }
+    Ok(svg)
+}
+
+/// Draws one chart in `area` with the axis scales it asks for.
+fn draw_scaled(area: &DrawingArea<SVGBackend<'_>, Shift>, chart: &Chart) -> Result<(), PlotError> {
+    let (x0, x1) = axis_range(chart, 'x', chart.x_scale)?;
+    let (y0, y1) = axis_range(chart, 'y', chart.y_scale)?;
+    match (chart.x_scale, chart.y_scale) {
+        (Scale::Linear, Scale::Linear) => draw(area, chart, x0..x1, y0..y1),
+        (Scale::Linear, Scale::Log10) => draw(area, chart, x0..x1, (y0..y1).log_scale()),
+        (Scale::Log10, Scale::Linear) => draw(area, chart, (x0..x1).log_scale(), y0..y1),
+        (Scale::Log10, Scale::Log10) => {
+            draw(area, chart, (x0..x1).log_scale(), (y0..y1).log_scale())
+        }
+    }
 }
 
 fn draw_err<E: std::error::Error + Send + Sync>(e: DrawingAreaErrorKind<E>) -> PlotError {
@@ -228,10 +270,14 @@ fn ensure_font() -> Result<(), PlotError> {
     ok.then_some(()).ok_or(PlotError::Font)
 }
 
-/// Every (kind, label, index, x, y) the axes must cover; a vertical mark has no y.
-fn all_points(chart: &Chart) -> impl Iterator<Item = (&str, &str, usize, f64, Option<f64>)> {
+/// Every (kind, label, index, x, y) the axes must cover; a vertical mark has no y, a
+/// horizontal one no x.
+fn all_points(
+    chart: &Chart,
+) -> impl Iterator<Item = (&str, &str, usize, Option<f64>, Option<f64>)> {
     let series = chart.series.iter().flat_map(|s| {
-        let at = |(i, &(x, y)): (usize, &(f64, f64))| ("series", s.label.as_str(), i, x, Some(y));
+        let at =
+            |(i, &(x, y)): (usize, &(f64, f64))| ("series", s.label.as_str(), i, Some(x), Some(y));
         s.points.iter().enumerate().map(at)
     });
     let marks = chart
@@ -251,7 +297,7 @@ fn validate(chart: &Chart) -> Result<(), PlotError> {
         return Err(PlotError::EmptySeries(s.label.clone()));
     }
     for (kind, label, index, x, y) in all_points(chart) {
-        for (axis, value, scale) in [('x', Some(x), chart.x_scale), ('y', y, chart.y_scale)] {
+        for (axis, value, scale) in [('x', x, chart.x_scale), ('y', y, chart.y_scale)] {
             let Some(value) = value else { continue };
             if value.is_finite() && (scale == Scale::Linear || value > 0.0) {
                 continue;
@@ -275,8 +321,7 @@ fn validate(chart: &Chart) -> Result<(), PlotError> {
 /// Data extent plus a 5 % margin each side (in decades on a log axis); a flat extent is widened around itself.
 fn axis_range(chart: &Chart, axis: char, scale: Scale) -> Result<(f64, f64), PlotError> {
     let to_axis = |v: f64| if scale == Scale::Log10 { v.log10() } else { v };
-    let values =
-        all_points(chart).filter_map(|(_, _, _, x, y)| if axis == 'x' { Some(x) } else { y });
+    let values = all_points(chart).filter_map(|(_, _, _, x, y)| if axis == 'x' { x } else { y });
     let (lo, hi) = values
         .map(to_axis)
         .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
@@ -292,9 +337,14 @@ fn axis_range(chart: &Chart, axis: char, scale: Scale) -> Result<(f64, f64), Plo
     } else {
         1.0
     };
+    // A log axis runs over whole decades, so it always carries labelled decade ticks (a
+    // narrow range otherwise showed none).
     let (a, b) = match scale {
         Scale::Linear => (lo - pad, hi + pad),
-        Scale::Log10 => (10f64.powf(lo - pad), 10f64.powf(hi + pad)),
+        Scale::Log10 => (
+            10f64.powf((lo - pad).floor()),
+            10f64.powf((hi + pad).ceil()),
+        ),
     };
     let drawable = a.is_finite() && b.is_finite() && a < b && (scale == Scale::Linear || a > 0.0);
     drawable
@@ -321,12 +371,13 @@ fn tick_label(v: f64, span: f64) -> String {
     }
 }
 
-/// Rising curves leave the upper left empty, falling ones the upper right; the first series decides.
+/// Rising curves that bend over (saturation) leave the lower right empty, falling ones the
+/// upper right; the first series decides. The top edge is kept for vertical marks' labels.
 fn legend_corner(chart: &Chart) -> SeriesLabelPosition {
     let pts = chart.series.first().map_or(&[][..], |s| &s.points[..]);
     match (pts.first(), pts.last()) {
         (Some(a), Some(b)) if b.1 < a.1 => SeriesLabelPosition::UpperRight,
-        _ => SeriesLabelPosition::UpperLeft,
+        _ => SeriesLabelPosition::LowerRight,
     }
 }
 
@@ -399,15 +450,25 @@ where
 
     let text = TextStyle::from((FAMILY, 13).into_font()).color(&MARK_COLOUR);
     for mark in &chart.marks {
-        let (anchor, offset) = if let Some(y) = mark.y {
-            let dot = Circle::new((mark.x, y), 4, MARK_COLOUR.filled());
-            ctx.draw_series([dot]).map_err(draw_err)?;
-            ((mark.x, y), (7, -18))
-        } else {
-            let line = [(mark.x, y_range.start), (mark.x, y_range.end)];
-            let dashes = DashedLineSeries::new(line, 6u32, 4u32, MARK_COLOUR.stroke_width(1));
-            ctx.draw_series(dashes).map_err(draw_err)?;
-            ((mark.x, y_range.end), (5, 5))
+        let (anchor, offset) = match (mark.x, mark.y) {
+            (Some(x), Some(y)) => {
+                let dot = Circle::new((x, y), 4, MARK_COLOUR.filled());
+                ctx.draw_series([dot]).map_err(draw_err)?;
+                ((x, y), (7, -18))
+            }
+            (Some(x), None) => {
+                let line = [(x, y_range.start), (x, y_range.end)];
+                let dashes = DashedLineSeries::new(line, 6u32, 4u32, MARK_COLOUR.stroke_width(1));
+                ctx.draw_series(dashes).map_err(draw_err)?;
+                ((x, y_range.end), (5, 5))
+            }
+            (None, Some(y)) => {
+                let line = [(x_range.start, y), (x_range.end, y)];
+                let dashes = DashedLineSeries::new(line, 6u32, 4u32, MARK_COLOUR.stroke_width(1));
+                ctx.draw_series(dashes).map_err(draw_err)?;
+                ((x_range.start, y), (6, -17))
+            }
+            (None, None) => continue,
         };
         let label = EmptyElement::at(anchor) + Text::new(mark.label.clone(), offset, text.clone());
         ctx.draw_series([label]).map_err(draw_err)?;
