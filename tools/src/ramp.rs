@@ -194,22 +194,16 @@ pub fn ramp_observed(
         prev = Some(sol);
         on_step(k);
     }
-    let slopes: Vec<(f64, f64)> = std::iter::once((0.0, slope))
+    let curve: Vec<[f64; 3]> = std::iter::once([0.0, m0, slope])
         .chain(
             rows.iter()
-                .map(|r| (r.current_A, r.incremental_moment_Am2_per_A)),
+                .map(|r| [r.current_A, r.dipole_moment_Am2, r.incremental_moment_Am2_per_A]),
         )
         .collect();
-    let max_slope = slopes
+    let max_slope = curve
         .iter()
-        .copied()
-        .fold((0.0, f64::NEG_INFINITY), |a, b| {
-            if b.1.abs() > a.1.abs() {
-                b
-            } else {
-                a
-            }
-        });
+        .map(|p| (p[0], p[2]))
+        .fold((0.0, 0.0), |a: (f64, f64), b| if b.1.abs() > a.1.abs() { b } else { a });
     let largest_at_zero = slope.abs() >= (1.0 - SLOPE_AT_ZERO_IS_LARGEST) * max_slope.1.abs();
     let onset = sat0.b_sat.and_then(|bs| {
         saturation_onset(&peaks, SATURATED_FRACTION_OF_BSAT * bs).map(|(i, at)| SaturationOnset {
@@ -223,7 +217,7 @@ pub fn ramp_observed(
         zero_current_moment_Am2: m0,
         low_current_slope_Am2_per_A: slope,
         max_incremental_moment_Am2_per_A: (max_slope.1, max_slope.0),
-        knee_current_A: knee(&slopes),
+        knee_current_A: knee(&curve),
         line_knee_current_A: largest_at_zero
             .then(|| line_knee(&rows, m0, slope))
             .flatten(),
@@ -234,23 +228,65 @@ pub fn ramp_observed(
     })
 }
 
-/// First current where the slope (current, dm/dI) has fallen to [`KNEE_SLOPE_RATIO`] of the
-/// largest slope met up to there, interpolated linearly between the bracketing steps.
-pub fn knee(slopes: &[(f64, f64)]) -> Option<f64> {
+/// First current where dm/dI has fallen to [`KNEE_SLOPE_RATIO`] of the largest slope met up
+/// to there. `curve` holds [current, moment, dm/dI] per step; between two steps the moment is
+/// the cubic Hermite interpolant of those values (its slope a quadratic), which uses the
+/// tangent slopes the ramp computes anyway and keeps the knee within a small fraction of a
+/// step of where a finer ramp puts it.
+pub fn knee(curve: &[[f64; 3]]) -> Option<f64> {
     let mut largest = 0.0f64;
-    for w in slopes.windows(2) {
-        let ((i0, s0), (i1, s1)) = (w[0], w[1]);
+    for w in curve.windows(2) {
+        let ([i0, m0, s0], [i1, m1, s1]) = (w[0], w[1]);
         largest = largest.max(s0.abs()).max(s1.abs());
         let target = KNEE_SLOPE_RATIO * largest;
-        if s1.abs() <= target {
-            return Some(if s0.abs() > s1.abs() {
-                i0 + (i1 - i0) * (s0.abs() - target) / (s0.abs() - s1.abs())
-            } else {
-                i1
-            });
+        if s1.abs() > target {
+            continue;
         }
+        let h = i1 - i0;
+        // dm/dI(t) = a t² + b t + c on t ∈ [0, 1] (Hermite basis derivatives ÷ h).
+        let sign = s0.signum();
+        let (s0, s1, dm) = (sign * s0, sign * s1, sign * (m1 - m0) / h);
+        let a = 6.0 * (-dm) + 3.0 * s0 + 3.0 * s1;
+        let b = 6.0 * dm - 4.0 * s0 - 2.0 * s1;
+        let c = s0 - target;
+        let t = first_root_in_unit(a, b, c).unwrap_or(if s0 > s1 {
+            (s0 - target) / (s0 - s1)
+        } else {
+            1.0
+        });
+        return Some(i0 + h * t);
     }
     None
+}
+
+/// Smallest root of a t² + b t + c in [0, 1], if any.
+fn first_root_in_unit(a: f64, b: f64, c: f64) -> Option<f64> {
+    let scale = a.abs().max(b.abs()).max(c.abs());
+    let roots: Vec<f64> = if a.abs() <= 1e-12 * scale {
+        if b == 0.0 {
+            vec![]
+        } else {
+            vec![-c / b]
+        }
+    } else {
+        let disc = b * b - 4.0 * a * c;
+        if disc < 0.0 {
+            vec![]
+        } else {
+            // The stable pair of roots (no cancellation in −b ± √disc).
+            let q = -0.5 * (b + b.signum() * disc.sqrt());
+            if q == 0.0 {
+                vec![0.0]
+            } else {
+                vec![q / a, c / q]
+            }
+        }
+    };
+    roots
+        .into_iter()
+        .filter(|t| (-1e-12..=1.0 + 1e-12).contains(t))
+        .map(|t| t.clamp(0.0, 1.0))
+        .min_by(|x, y| x.total_cmp(y))
 }
 
 /// First current at which the peak |B| (current, peak) reaches `threshold`, interpolated
