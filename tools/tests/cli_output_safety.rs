@@ -199,6 +199,8 @@ fn a_directory_where_no_file_can_be_created_is_refused_before_the_mesh() {
         let s = Scratch::new("proc");
         let out = run(&[cmd, &s.case(), "--vtk", "/proc/axicore-map.vtu"]);
         assert_refused(&out, "--vtk", "no file can be created in directory /proc");
+        // The message names the user's path, not the probe's random name.
+        assert!(!String::from_utf8_lossy(&out.stderr).contains(".tmp"));
     }
 }
 

@@ -86,7 +86,11 @@ pub(crate) fn create_named(
     let mut builder = builder(&prefix, random_chars);
     builder.permissions(Permissions::from_mode(0o666));
     let mut live = cleanup::registry();
-    let (file, path) = builder.tempfile_in(dir)?.keep().map_err(|e| e.error)?;
+    let (file, path) = builder
+        .tempfile_in(dir)
+        .map_err(plain)?
+        .keep()
+        .map_err(|e| e.error)?;
     live.push(path.clone());
     drop(live);
     let temp = Temp {
@@ -107,6 +111,17 @@ pub(crate) fn create_named(
     Ok(temp)
 }
 
+/// The operating system's error without tempfile's note of the random path it tried: the
+/// message names the output and its directory, not a name the user never gave.
+fn plain(e: io::Error) -> io::Error {
+    // tempfile appends ` at path "…"` to the message and keeps no other way to the cause.
+    let text = e.to_string();
+    match text.rsplit_once(" at path ") {
+        Some((cause, _)) => io::Error::new(e.kind(), cause),
+        None => e,
+    }
+}
+
 /// Creates and at once removes a temporary in `dir`: proof that a file can be created there
 /// (the directory exists, is writable, the filesystem is not read-only or full of names).
 pub(crate) fn probe(dir: &Path) -> io::Result<()> {
@@ -119,6 +134,7 @@ pub(crate) fn backup_of(target: &Path) -> io::Result<tempfile::TempPath> {
     let prefix = prefix_for(target);
     // `make_in` retries under another name when the name exists, as for a temporary.
     let named = builder(&prefix, RANDOM_CHARS)
-        .make_in(directory_of(target), |p| std::fs::hard_link(target, p))?;
+        .make_in(directory_of(target), |p| std::fs::hard_link(target, p))
+        .map_err(plain)?;
     Ok(named.into_temp_path())
 }
