@@ -10,17 +10,23 @@ use axicore_solver::{FeMesh, Model, Solution, SolverError};
 use crate::case::Case;
 use crate::geometry::{winding_tag, AIR_TAG, CORE_TAG};
 
-/// Name of region `tag` of `case`: "air", "core" or "winding NAME".
+/// Name of region `tag` of `case`: "air", "core" or the winding's name from the case.
 pub fn region_name(case: &Case, tag: u32) -> String {
     match tag {
         AIR_TAG => "air".into(),
         CORE_TAG => "core".into(),
         t => (0..case.windings.len())
             .find(|&k| winding_tag(k) == t)
-            .map_or_else(
-                || format!("region {t}"),
-                |k| format!("winding {}", case.windings[k].name),
-            ),
+            .map_or_else(|| format!("region {t}"), |k| case.windings[k].name.clone()),
+    }
+}
+
+/// Kind of region `tag`: "air", "core" or "winding" (a winding may be called anything).
+pub fn region_kind(tag: u32) -> &'static str {
+    match tag {
+        AIR_TAG => "air",
+        CORE_TAG => "core",
+        _ => "winding",
     }
 }
 
@@ -43,6 +49,10 @@ pub fn labels(case: &Case) -> MapLabels {
         title: case.title.clone(),
         region_names,
         extra: vec![
+            DataArray::text(
+                "region_kinds",
+                (0..n as u32).map(|t| region_kind(t).into()).collect(),
+            ),
             DataArray::text("region_materials", materials),
             DataArray::scalars("winding_turns", winding(&|w| w.turns)),
             DataArray::scalars("winding_current_A", winding(&|w| w.current)),
