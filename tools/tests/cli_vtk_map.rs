@@ -27,9 +27,12 @@ enum Decoded {
     Text(Vec<String>),
 }
 
+/// Decoded arrays by (section, name), with their component counts.
+type Arrays = HashMap<(String, String), (usize, Decoded)>;
+
 /// Arrays by (section, name): section is FieldData, PointData, CellData, Points or Cells.
 /// A deliberately small reader of what our writer emits (inline binary, UInt64 headers).
-fn parse_vtu(text: &str) -> HashMap<(String, String), (usize, Decoded)> {
+fn parse_vtu(text: &str) -> Arrays {
     assert!(text.starts_with("<?xml version=\"1.0\"?>"));
     assert!(text.contains("type=\"UnstructuredGrid\""));
     assert!(text.contains("header_type=\"UInt64\""));
@@ -90,18 +93,14 @@ fn parse_vtu(text: &str) -> HashMap<(String, String), (usize, Decoded)> {
     out
 }
 
-fn text<'a>(m: &'a HashMap<(String, String), (usize, Decoded)>, name: &str) -> &'a [String] {
+fn text<'a>(m: &'a Arrays, name: &str) -> &'a [String] {
     match &m[&("FieldData".into(), name.into())].1 {
         Decoded::Text(v) => v,
         d => panic!("{name}: {d:?}"),
     }
 }
 
-fn floats<'a>(
-    m: &'a HashMap<(String, String), (usize, Decoded)>,
-    sec: &str,
-    name: &str,
-) -> &'a [f64] {
+fn floats<'a>(m: &'a Arrays, sec: &str, name: &str) -> &'a [f64] {
     match &m[&(sec.into(), name.into())].1 {
         Decoded::F64(v) => v,
         d => panic!("{name}: {d:?}"),
@@ -122,12 +121,7 @@ fineness = 0.5
 order = ORDER
 "#;
 
-fn solve_map(
-    order: u32,
-) -> (
-    HashMap<(String, String), (usize, Decoded)>,
-    serde_json::Value,
-) {
+fn solve_map(order: u32) -> (Arrays, serde_json::Value) {
     let dir = scratch(&format!("order{order}"));
     let case = dir.join("coil.toml");
     std::fs::write(&case, COIL.replace("ORDER", &order.to_string())).unwrap();
