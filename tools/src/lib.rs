@@ -20,6 +20,7 @@ pub mod ramp;
 
 pub mod report;
 pub mod units;
+pub mod vtk_map;
 
 /// The built-in example case (also saved as `cases/torquer-rod/case.toml`).
 pub const EXAMPLE_CASE: &str = include_str!("../../cases/torquer-rod/case.toml");

@@ -425,16 +425,12 @@ pub fn run_from(
         None => None,
     };
     let vtk = if opts.vtk {
-        let (pa, ca, region) = axicore_solver::export::vtk::field_arrays(
+        Some(crate::vtk_map::field_vtu(
+            case,
             &model,
             &sol,
+            &j_full,
             operating_point::SATURATED_FRACTION_OF_BSAT,
-        );
-        Some(axicore_solver::export::vtk::vtu_bytes(
-            model.mesh(),
-            &pa,
-            &ca,
-            &region,
         )?)
     } else {
         None

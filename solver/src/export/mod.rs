@@ -1,6 +1,8 @@
 //! File output of solved fields.
 
+pub mod region_points;
 pub mod vtk;
+pub mod vtu;
 
 use std::io::Write;
 use std::path::Path;

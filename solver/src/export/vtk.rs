@@ -1,21 +1,157 @@
-//! VTK XML UnstructuredGrid (.vtu) output of the (r, z) mesh and its fields.
+//! The VTK map of a solution (.vtu): what each array holds, in which unit.
 //!
-//! Points are written as (x, y, z) = (r, z, 0): the meridian plane of the axisymmetric model.
-//! Files are written to a temporary name and renamed, so a failed write leaves nothing behind.
+//! Points are (x, y, z) = (r, z, 0): the meridian half-plane of the axisymmetric model, in m.
+//! Point data is the recovered (smooth) field, written per region (see [`RegionPoints`]); cell
+//! data holds what is constant per element (region, current density) or follows from the
+//! element's volume-mean B (magnetization, μr, saturation). Field data carries the case title,
+//! the meaning of the coordinates, region names and the unit of every array, so the file says
+//! what it holds without this program.
 
-use std::path::Path;
+use rayon::prelude::*;
 
-use vtkio::model::{
-    Attribute, Attributes, ByteOrder, CellType, Cells, DataSet, Piece, UnstructuredGridPiece,
-    Version, VertexNumbers, Vtk,
-};
-
+use super::region_points::RegionPoints;
+use super::vtu::{DataArray, Grid, VtuError};
 use crate::field::Solution;
 use crate::mesh::FeMesh;
+use crate::recover::Patches;
 use crate::solve::Model;
 use crate::{SolverError, MU0};
 
-/// A named data array: one value per point or cell, `components` values each.
+/// What the solver does not know about a case: its title and region names, and any further
+/// field-data entries the caller wants in the file.
+#[derive(Debug, Clone, Default)]
+pub struct MapLabels {
+    /// Case title.
+    pub title: String,
+    /// Region names indexed by region id (tag); missing ones are written as "region N".
+    pub region_names: Vec<String>,
+    /// Extra field-data arrays (e.g. winding currents), written after the standard ones.
+    pub extra: Vec<DataArray>,
+}
+
+/// Coordinate meaning written into every map.
+pub const COORDINATES: &str = "x = r (radial) in m, y = z (axial) in m, z = 0: the meridian \
+    half-plane r >= 0 of a body of revolution about the y axis";
+
+/// The point arrays of a field map: (name, unit, meaning).
+pub const POINT_ARRAYS: [(&str, &str, &str); 9] = [
+    ("B_T", "T", "flux density vector (B_r, B_z, 0), recovered"),
+    ("B_r_T", "T", "radial flux density B_r, recovered"),
+    ("B_z_T", "T", "axial flux density B_z, recovered"),
+    ("B_magnitude_T", "T", "|B|, recovered"),
+    ("H_A_per_m", "A/m", "field strength vector (H_r, H_z, 0) = nu(|B|) B"),
+    ("H_magnitude_A_per_m", "A/m", "|H|"),
+    ("mu_r", "1", "secant relative permeability |B|/(mu0 |H|)"),
+    ("A_phi_Wb_per_m", "Wb/m", "azimuthal vector potential A_phi"),
+    (
+        "flux_function_Wb",
+        "Wb",
+        "2 pi r A_phi: flux through the circle of radius r at height z; its contours are field lines",
+    ),
+];
+
+/// The cell arrays of a field map: (name, unit, meaning).
+pub const CELL_ARRAYS: [(&str, &str, &str); 6] = [
+    (
+        "region",
+        "1",
+        "region id (Int32); names in field data region_names",
+    ),
+    (
+        "J_phi_A_per_m2",
+        "A/m^2",
+        "azimuthal current density of the winding (N I / section)",
+    ),
+    (
+        "M_A_per_m",
+        "A/m",
+        "magnetization vector (M_r, M_z, 0) = B/mu0 - H of the element's mean B",
+    ),
+    (
+        "mu_r",
+        "1",
+        "secant relative permeability at the element's mean |B|",
+    ),
+    (
+        "B_over_B_sat",
+        "1",
+        "element mean |B| over the material's saturation flux density (0: none)",
+    ),
+    (
+        "saturated",
+        "1",
+        "Int32 flag: 1 where B_over_B_sat exceeds the saturation threshold",
+    ),
+];
+
+/// The field map of a solution: the .vtu file contents. `j_elem` is the current density of
+/// every element (A/m²) the field was solved for; `saturated_at` the fraction of the saturation
+/// flux density above which a cell is flagged.
+pub fn field_map(
+    model: &Model,
+    sol: &Solution,
+    j_elem: &[f64],
+    saturated_at: f64,
+    labels: &MapLabels,
+) -> Result<Vec<u8>, SolverError> {
+    field_grid(model, sol, j_elem, saturated_at, labels)?
+        .to_bytes()
+        .map_err(buffer_error)
+}
+
+/// The grid behind [`field_map`] (points per region, all arrays).
+pub fn field_grid(
+    model: &Model,
+    sol: &Solution,
+    j_elem: &[f64],
+    saturated_at: f64,
+    labels: &MapLabels,
+) -> Result<Grid, SolverError> {
+    let mesh = model.mesh();
+    if j_elem.len() != mesh.triangles.len() {
+        return Err(buffer_error(VtuError::Length {
+            name: "J_phi_A_per_m2".into(),
+            found: j_elem.len(),
+            expected: mesh.triangles.len(),
+        }));
+    }
+    let rp = RegionPoints::new(mesh);
+    let points = point_arrays(model, sol, &rp);
+    let cells = cell_arrays(model, sol, j_elem, saturated_at);
+    let mut field = standard_field_data(mesh, labels, true);
+    field.push(DataArray::scalars(
+        "saturation_threshold",
+        vec![saturated_at],
+    ));
+    field.extend(labels.extra.iter().cloned());
+    Ok(Grid {
+        points: rp.coordinates(mesh),
+        connectivity: rp.connectivity,
+        nodes_per_cell: 3 * mesh.order(),
+        point_data: points,
+        cell_data: cells,
+        field_data: field,
+    })
+}
+
+/// A map of the mesh alone: cell data "region", field data with title, coordinates and
+/// region names. Points are the mesh nodes (no field, so nothing to write per region).
+pub fn mesh_map(mesh: &FeMesh, labels: &MapLabels) -> Result<Vec<u8>, SolverError> {
+    let mut field = standard_field_data(mesh, labels, false);
+    field.extend(labels.extra.iter().cloned());
+    Grid {
+        points: mesh.nodes.clone(),
+        connectivity: connectivity(mesh),
+        nodes_per_cell: 3 * mesh.order(),
+        point_data: Vec::new(),
+        cell_data: vec![region_array(mesh)],
+        field_data: field,
+    }
+    .to_bytes()
+    .map_err(buffer_error)
+}
+
+/// A data array of [`vtu_bytes`]: one value per point or cell, `components` values each.
 #[derive(Debug, Clone)]
 pub struct Array {
     /// Name shown in a viewer.
@@ -26,181 +162,198 @@ pub struct Array {
     pub values: Vec<f64>,
 }
 
-/// The standard field arrays of a solution: point data (A_φ, flux function) and cell data
-/// (region, B, |B|, H, |H|, secant μr, |B|/B_sat and a flag for |B| > `saturated_at`·B_sat,
-/// both 0 in materials without saturation), all in SI units named in the array names.
-pub fn field_arrays(
-    model: &Model,
-    sol: &Solution,
-    saturated_at: f64,
-) -> (Vec<Array>, Vec<Array>, Vec<i32>) {
-    let mesh = model.mesh();
-    let a_total = sol.nodal_a(model);
-    let flux: Vec<f64> = mesh
-        .nodes
-        .iter()
-        .zip(&a_total)
-        .map(|(p, a)| 2.0 * std::f64::consts::PI * p[0] * a)
-        .collect();
-    let points = vec![
-        Array {
-            name: "A_phi_Wb_per_m".into(),
-            components: 1,
-            values: a_total,
-        },
-        // Contours of 2π r A are field lines (flux through the circle of radius r).
-        Array {
-            name: "flux_Wb".into(),
-            components: 1,
-            values: flux,
-        },
-    ];
-    let b = sol.element_b(model);
-    let mut bv = Vec::with_capacity(3 * b.len());
-    let mut bm = Vec::with_capacity(b.len());
-    let mut hv = Vec::with_capacity(3 * b.len());
-    let mut hm = Vec::with_capacity(b.len());
-    let mut mu = Vec::with_capacity(b.len());
-    let mut ratio = Vec::with_capacity(b.len());
-    let mut flag = Vec::with_capacity(b.len());
-    for (e, be) in b.iter().enumerate() {
-        let b2 = be[0] * be[0] + be[1] * be[1];
-        let mat = model.material(e);
-        let nu = mat.nu(b2.sqrt());
-        let r = mat.saturation_b().map_or(0.0, |bs| b2.sqrt() / bs);
-        ratio.push(r);
-        flag.push(if r > saturated_at { 1.0 } else { 0.0 });
-        bv.extend_from_slice(&[be[0], be[1], 0.0]);
-        bm.push(b2.sqrt());
-        hv.extend_from_slice(&[nu * be[0], nu * be[1], 0.0]);
-        hm.push(nu * b2.sqrt());
-        mu.push(1.0 / (MU0 * nu));
-    }
-    let cells = vec![
-        Array {
-            name: "B_T".into(),
-            components: 3,
-            values: bv,
-        },
-        Array {
-            name: "B_magnitude_T".into(),
-            components: 1,
-            values: bm,
-        },
-        Array {
-            name: "H_A_per_m".into(),
-            components: 3,
-            values: hv,
-        },
-        Array {
-            name: "H_magnitude_A_per_m".into(),
-            components: 1,
-            values: hm,
-        },
-        Array {
-            name: "mu_r".into(),
-            components: 1,
-            values: mu,
-        },
-        Array {
-            name: "B_over_B_sat".into(),
-            components: 1,
-            values: ratio,
-        },
-        Array {
-            name: "saturated".into(),
-            components: 1,
-            values: flag,
-        },
-    ];
-    let region = mesh.tags.iter().map(|&t| t as i32).collect();
-    (points, cells, region)
-}
-
-/// Writes `mesh` with the given arrays and an Int32 cell array "region" to `path` (.vtu).
-pub fn write_vtu(
-    path: &Path,
-    mesh: &FeMesh,
-    point_arrays: &[Array],
-    cell_arrays: &[Array],
-    region: &[i32],
-) -> Result<(), SolverError> {
-    let buf = vtu_bytes(mesh, point_arrays, cell_arrays, region)?;
-    crate::export::atomic_write(path, &buf).map_err(|e| SolverError::Write {
-        path: path.display().to_string(),
-        reason: e.to_string(),
-    })
-}
-
-/// The .vtu file contents for `mesh` with the given arrays and an Int32 cell array "region".
+/// The mesh with the given arrays and an Int32 cell array "region", on the mesh nodes, without
+/// names (kept for callers that have none; [`mesh_map`] and [`field_map`] say more).
 pub fn vtu_bytes(
     mesh: &FeMesh,
     point_arrays: &[Array],
     cell_arrays: &[Array],
     region: &[i32],
 ) -> Result<Vec<u8>, SolverError> {
-    let werr = |reason: String| SolverError::Write {
-        path: String::from("(VTK buffer)"),
-        reason,
+    let convert = |a: &Array| DataArray {
+        name: a.name.clone(),
+        components: a.components as usize,
+        values: super::vtu::Values::F64(a.values.clone()),
     };
-    let points: Vec<f64> = mesh.nodes.iter().flat_map(|p| [p[0], p[1], 0.0]).collect();
-    // VTK's quadratic triangle lists the corners, then the nodes of edges 0–1, 1–2, 2–0: the
-    // order `FeMesh` keeps.
-    let (per_cell, cell_type) = if mesh.order() == 2 {
-        (6, CellType::QuadraticTriangle)
-    } else {
-        (3, CellType::Triangle)
-    };
-    let connectivity: Vec<u64> = (0..mesh.triangles.len())
-        .flat_map(|t| {
-            mesh.element_nodes(t)
-                .iter()
-                .map(|&n| u64::from(n))
-                .collect::<Vec<_>>()
-        })
-        .collect();
-    let offsets: Vec<u64> = (1..=mesh.triangles.len() as u64)
-        .map(|i| per_cell * i)
-        .collect();
-    let mut data = Attributes::new();
-    for a in point_arrays {
-        data.point.push(array_attribute(a));
+    let mut cell_data = vec![DataArray::integers("region", region.to_vec())];
+    cell_data.extend(cell_arrays.iter().map(convert));
+    Grid {
+        points: mesh.nodes.clone(),
+        connectivity: connectivity(mesh),
+        nodes_per_cell: 3 * mesh.order(),
+        point_data: point_arrays.iter().map(convert).collect(),
+        cell_data,
+        field_data: vec![DataArray::text("coordinates", vec![COORDINATES.into()])],
     }
-    data.cell
-        .push(Attribute::scalars("region", 1).with_data(region.to_vec()));
-    for a in cell_arrays {
-        data.cell.push(array_attribute(a));
-    }
-    let vtk = Vtk {
-        version: Version::new_xml(1, 0),
-        title: String::from("axicore field (r, z, 0)"),
-        byte_order: ByteOrder::LittleEndian,
-        file_path: None,
-        data: DataSet::UnstructuredGrid {
-            meta: None,
-            pieces: vec![Piece::Inline(Box::new(UnstructuredGridPiece {
-                points: points.into(),
-                cells: Cells {
-                    cell_verts: VertexNumbers::XML {
-                        connectivity,
-                        offsets,
-                    },
-                    types: vec![cell_type; mesh.triangles.len()],
-                },
-                data,
-            }))],
-        },
-    };
-    let mut buf = Vec::new();
-    vtk.write_xml(&mut buf).map_err(|e| werr(e.to_string()))?;
-    Ok(buf)
+    .to_bytes()
+    .map_err(buffer_error)
 }
 
-fn array_attribute(a: &Array) -> Attribute {
-    let attr = if a.components == 3 {
-        Attribute::vectors(a.name.clone())
+fn buffer_error(e: VtuError) -> SolverError {
+    SolverError::Write {
+        path: String::from("(VTK buffer)"),
+        reason: e.to_string(),
+    }
+}
+
+fn connectivity(mesh: &FeMesh) -> Vec<u32> {
+    (0..mesh.triangles.len())
+        .flat_map(|e| mesh.element_nodes(e).iter().copied().collect::<Vec<_>>())
+        .collect()
+}
+
+fn region_array(mesh: &FeMesh) -> DataArray {
+    DataArray::integers("region", mesh.tags.iter().map(|&t| t as i32).collect())
+}
+
+/// Title, coordinates, region ids and names, array units and notes.
+fn standard_field_data(mesh: &FeMesh, labels: &MapLabels, with_field: bool) -> Vec<DataArray> {
+    let n = mesh.tag_count().max(labels.region_names.len());
+    let names = (0..n)
+        .map(|t| {
+            labels
+                .region_names
+                .get(t)
+                .cloned()
+                .unwrap_or_else(|| format!("region {t}"))
+        })
+        .collect();
+    let mut units = Vec::new();
+    if with_field {
+        for (name, unit, meaning) in POINT_ARRAYS {
+            units.push(format!("point {name} [{unit}]: {meaning}"));
+        }
+        for (name, unit, meaning) in CELL_ARRAYS {
+            units.push(format!("cell {name} [{unit}]: {meaning}"));
+        }
     } else {
-        Attribute::scalars(a.name.clone(), a.components)
-    };
-    attr.with_data(a.values.clone())
+        let (name, unit, meaning) = CELL_ARRAYS[0];
+        units.push(format!("cell {name} [{unit}]: {meaning}"));
+    }
+    let mut notes = vec![String::from(
+        "points are (r, z, 0); SI units throughout; the model is axisymmetric (fields are the same at every azimuth)",
+    )];
+    if with_field {
+        notes.push(String::from(
+            "point data is written per region: a node on a region interface has one copy per \
+             region, and each region's cells use their own copy, because B, H and mu_r jump \
+             across material interfaces",
+        ));
+        notes.push(String::from(
+            "recovered = least-squares fit of the nodal A_phi over the element patch of one \
+             region (superconvergent patch recovery), the element value where the patch is too small",
+        ));
+    }
+    vec![
+        DataArray::text("title", vec![labels.title.clone()]),
+        DataArray::text("coordinates", vec![COORDINATES.into()]),
+        DataArray::integers("region_ids", (0..n as i32).collect()),
+        DataArray::text("region_names", names),
+        DataArray::text("array_units", units),
+        DataArray::text("notes", notes),
+    ]
+}
+
+/// Total B at mesh node `node` from element `e` alone (the fallback of the patch fit).
+fn element_b_at_node(model: &Model, sol: &Solution, e: usize, node: u32) -> [f64; 2] {
+    let mesh = model.mesh();
+    let nodes = mesh.element_nodes(e);
+    let k = nodes.iter().position(|&n| n == node).unwrap_or(0);
+    // Barycentric coordinates of the corners and of the mid-edge nodes 0–1, 1–2, 2–0.
+    const AT: [[f64; 3]; 6] = [
+        [1.0, 0.0, 0.0],
+        [0.0, 1.0, 0.0],
+        [0.0, 0.0, 1.0],
+        [0.5, 0.5, 0.0],
+        [0.0, 0.5, 0.5],
+        [0.5, 0.0, 0.5],
+    ];
+    let g = &model.geometry()[e];
+    let av = sol.element_values(model, e);
+    let r = mesh.nodes[node as usize][0];
+    if r > 0.0 {
+        let b = g.b_at_bary(&av, AT[k], r);
+        [b[0], b[1] + sol.b0]
+    } else {
+        // On the axis A/r → ∂A/∂r, so B_z = 2 ∂A/∂r (elements there use the plain basis).
+        let [da_dr, da_dz] = g.plain_gradient(&av, AT[k]);
+        [-da_dz, 2.0 * da_dr + sol.b0]
+    }
+}
+
+fn point_arrays(model: &Model, sol: &Solution, rp: &RegionPoints) -> Vec<DataArray> {
+    let mesh = model.mesh();
+    let patches = Patches::new(mesh);
+    let a_nodal = sol.nodal_a(model);
+    // One patch fit per written point, centred on its node and kept to its region. Each is
+    // independent: an indexed parallel collect keeps the order, so the values are bitwise the
+    // same for any thread count.
+    let b: Vec<[f64; 2]> = (0..rp.len())
+        .into_par_iter()
+        .map(|p| {
+            let (e, n) = (rp.element[p] as usize, rp.node[p]);
+            patches
+                .b_at_qr(model, sol, e, mesh.nodes[n as usize])
+                .unwrap_or_else(|| element_b_at_node(model, sol, e, n))
+        })
+        .collect();
+    let np = rp.len();
+    let (mut br, mut bz, mut bm) = (vec![0.0; np], vec![0.0; np], vec![0.0; np]);
+    let (mut h, mut hm, mut mu) = (vec![[0.0; 2]; np], vec![0.0; np], vec![0.0; np]);
+    let (mut a, mut flux) = (vec![0.0; np], vec![0.0; np]);
+    for p in 0..np {
+        let mat = &model.region(rp.tag[p]).material;
+        let mag = b[p][0].hypot(b[p][1]);
+        let nu = mat.nu(mag);
+        let n = rp.node[p] as usize;
+        br[p] = b[p][0];
+        bz[p] = b[p][1];
+        bm[p] = mag;
+        h[p] = [nu * b[p][0], nu * b[p][1]];
+        hm[p] = nu * mag;
+        mu[p] = 1.0 / (MU0 * nu);
+        a[p] = a_nodal[n];
+        flux[p] = 2.0 * std::f64::consts::PI * mesh.nodes[n][0] * a_nodal[n];
+    }
+    let [n_b, n_br, n_bz, n_bm, n_h, n_hm, n_mu, n_a, n_flux] = POINT_ARRAYS.map(|x| x.0);
+    vec![
+        DataArray::plane_vectors(n_b, &b),
+        DataArray::scalars(n_br, br),
+        DataArray::scalars(n_bz, bz),
+        DataArray::scalars(n_bm, bm),
+        DataArray::plane_vectors(n_h, &h),
+        DataArray::scalars(n_hm, hm),
+        DataArray::scalars(n_mu, mu),
+        DataArray::scalars(n_a, a),
+        DataArray::scalars(n_flux, flux),
+    ]
+}
+
+fn cell_arrays(model: &Model, sol: &Solution, j_elem: &[f64], saturated_at: f64) -> Vec<DataArray> {
+    let mesh = model.mesh();
+    let b = sol.element_b(model);
+    let ne = b.len();
+    let (mut m, mut mu) = (vec![[0.0; 2]; ne], vec![0.0; ne]);
+    let (mut ratio, mut flag) = (vec![0.0; ne], vec![0; ne]);
+    for (e, be) in b.iter().enumerate() {
+        let mat = model.material(e);
+        let mag = be[0].hypot(be[1]);
+        let nu = mat.nu(mag);
+        // M = B/μ0 − H = (1/μ0 − ν) B: exactly 0 where μr = 1.
+        let chi = 1.0 / MU0 - nu;
+        m[e] = [chi * be[0], chi * be[1]];
+        mu[e] = 1.0 / (MU0 * nu);
+        ratio[e] = mat.saturation_b().map_or(0.0, |bs| mag / bs);
+        flag[e] = i32::from(ratio[e] > saturated_at);
+    }
+    let [n_region, n_j, n_m, n_mu, n_ratio, n_flag] = CELL_ARRAYS.map(|x| x.0);
+    debug_assert_eq!(n_region, "region");
+    vec![
+        region_array(mesh),
+        DataArray::scalars(n_j, j_elem.to_vec()),
+        DataArray::plane_vectors(n_m, &m),
+        DataArray::scalars(n_mu, mu),
+        DataArray::scalars(n_ratio, ratio),
+        DataArray::integers(n_flag, flag),
+    ]
 }
