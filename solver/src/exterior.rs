@@ -1,4 +1,4 @@
-//! The exact open boundary: the energy of the field outside the meshed sphere, as a quadratic
+//! The exact exterior: the energy of the field outside the meshed sphere, as a quadratic
 //! form in the potential on its surface (a Dirichlet-to-Neumann map).
 //!
 //! Outside a sphere of radius R0 enclosing every source and every magnetic body, the reaction
@@ -27,9 +27,9 @@ use crate::element::ElementGeometry;
 use crate::mesh::FeMesh;
 use crate::{SolverError, MU0};
 
-/// The open boundary of a problem: the radius of the meshed sphere and its surface nodes.
+/// The exact exterior of a problem: the radius of the meshed sphere and its surface nodes.
 #[derive(Debug, Clone, PartialEq)]
-pub struct OpenBoundary {
+pub struct ExactExterior {
     /// Radius R0 of the outer sphere in m (the mesh's outer arc approximates it).
     pub radius: f64,
     /// Nodes on the outer arc (free unknowns; the two on the axis stay fixed at zero).
@@ -93,11 +93,11 @@ fn edge_point(g: &ElementGeometry, l: [f64; 3], la: usize, lb: usize) -> ([f64; 
 pub fn exterior_operator(
     mesh: &FeMesh,
     geom: &[ElementGeometry],
-    open: &OpenBoundary,
+    open: &ExactExterior,
 ) -> Result<ExteriorOperator, SolverError> {
     if !(open.radius.is_finite() && open.radius > 0.0) || open.modes == 0 {
         return Err(SolverError::BadMaterial(format!(
-            "open boundary needs a positive radius and at least one mode (radius {}, modes {})",
+            "exact exterior needs a positive radius and at least one mode (radius {}, modes {})",
             open.radius, open.modes
         )));
     }
@@ -256,7 +256,7 @@ mod tests {
         let op = exterior_operator(
             &mesh,
             &geom,
-            &OpenBoundary {
+            &ExactExterior {
                 radius: r0,
                 nodes: outer.clone(),
                 modes: 8,

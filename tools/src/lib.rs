@@ -10,11 +10,13 @@ pub mod case;
 pub mod geometry;
 pub mod operating_point;
 pub mod output;
+pub mod output_names;
 pub mod pipeline;
 pub mod plot;
 pub mod ramp;
 pub mod ramp_plot;
 pub mod report;
+pub mod suggest;
 pub mod units;
 
 /// The built-in example case (also saved as `cases/torquer-rod/case.toml`).

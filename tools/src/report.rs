@@ -49,8 +49,8 @@ pub struct Report {
     pub max_core_b_T: Option<f64>,
     /// Uniform background B_z, T.
     pub background_b_T: f64,
-    /// Radius of the meshed air sphere, m.
-    pub air_radius_m: f64,
+    /// Radius of the meshed surroundings (`surroundings.radius`, given or automatic), m.
+    pub surroundings_radius_m: f64,
     /// Radius of the ball used by the check estimator, m.
     pub ball_radius_m: f64,
     /// Mesh nodes.
@@ -81,8 +81,8 @@ pub struct MeshReport {
     pub triangles_core: usize,
     /// Triangles in each winding.
     pub triangles_windings: Vec<usize>,
-    /// Smallest triangle angle, degrees.
-    pub min_angle_deg: f64,
+    /// Smallest triangle angle reached, degrees.
+    pub smallest_angle_deg: f64,
     /// Largest aspect ratio (1 = equilateral).
     pub max_aspect_ratio: f64,
 }
@@ -400,8 +400,8 @@ pub fn summary(r: &Report, show_timings: bool) -> String {
     );
     let _ = writeln!(
         s,
-        "          smallest angle {:.1}°, worst aspect ratio {:.2}, air sphere radius {:.4} m",
-        r.mesh.min_angle_deg, r.mesh.max_aspect_ratio, r.air_radius_m
+        "          smallest angle {:.1}°, worst aspect ratio {:.2}, surroundings radius {:.4} m",
+        r.mesh.smallest_angle_deg, r.mesh.max_aspect_ratio, r.surroundings_radius_m
     );
     if show_timings {
         let t = &r.timings_s;
