@@ -3,10 +3,13 @@
 
 use super::Case;
 
-/// A length this many times the median of the case's lengths is taken for a unit slip: real
-/// rod-core coils span a factor of a few tens between wire layer and core length, while a
-/// "60" meant as 60 mm is a thousand times too long (common practice, our own threshold).
-const SUSPECT_RATIO: f64 = 50.0;
+/// A core or winding length this many times the next largest one is taken for a unit slip:
+/// the long dimensions of a rod-core coil (core and winding length, a position) come within
+/// a few times of each other, while a "60" meant as 60 mm is a thousand times the core; an
+/// element size this factor squared below the median length is taken for one too. Our own
+/// thresholds, set from the cases in `cases/` (largest to next largest: 1.07× to 5× where a
+/// case has three lengths or more; 10× for the spheroid's two).
+const SUSPECT_RATIO: f64 = 20.0;
 
 /// Fineness above which a capped mesh is blamed on `mesh.fineness` (the element count grows
 /// like its square; 8 is already 64× the default).
@@ -14,24 +17,28 @@ const SUSPECT_FINENESS: f64 = 8.0;
 
 impl Case {
     /// The one-line message (with `file:` in front) for a mesh that would need more than
-    /// `limit` nodes, naming the likeliest key: a length far larger than the others (said to
-    /// be read as metres when it was a plain number), else a high `mesh.fineness`, else
-    /// `mesh.max_nodes` itself.
+    /// `limit` nodes, naming the likeliest key: a core or winding length far larger than the
+    /// others (said to be read as metres when it was a plain number), an element size far
+    /// below them, a high `mesh.fineness`, else `mesh.max_nodes` itself.
     pub fn explain_too_many_nodes(&self, file: &str, limit: usize) -> String {
         let need = format!("the mesh would need more than {limit} nodes");
+        let median = self.median_length();
         if let Some(g) = self.suspect_length() {
             let metres = trim(g.metres);
-            return if g.plain {
-                format!(
+            return match (g.plain, g.metres.abs() > median) {
+                (true, true) => format!(
                     "{file}: {}: {need}; {metres} has no unit and is read as {metres} m (plain numbers are metres): write e.g. \"{metres} mm\"",
                     g.key
-                )
-            } else {
-                format!(
-                    "{file}: {}: {need}; {metres} m is {:.0}× the median length of the case: check its unit",
+                ),
+                (false, true) => format!(
+                    "{file}: {}: {need}; {metres} m is over {SUSPECT_RATIO}× every other length of the core and windings: check its unit",
+                    g.key
+                ),
+                (_, false) => format!(
+                    "{file}: {}: {need}; the element size {metres} m is 1/{:.0} of the median length of the core and windings: check its unit",
                     g.key,
-                    g.metres / self.median_length()
-                )
+                    median / g.metres
+                ),
             };
         }
         if self.mesh.fineness > SUSPECT_FINENESS {
@@ -45,22 +52,42 @@ impl Case {
         )
     }
 
-    /// The length that stands out: the largest ratio to the median of all nonzero lengths,
-    /// if at least [`SUSPECT_RATIO`]. With fewer than three lengths there is no median to
-    /// stand out from, and the largest plain-number length is taken if it exceeds 1 m.
+    /// The length that stands out: the largest core or winding length, if at least
+    /// [`SUSPECT_RATIO`] times the next largest; else an element size (`mesh.*`) below
+    /// 1/[`SUSPECT_RATIO`]² of their median. The surroundings' radius is never
+    /// blamed: graded elements make a large one cheap. With fewer than three lengths there is
+    /// no median to stand out from, and only a plain-number length above 1 m is taken.
     fn suspect_length(&self) -> Option<&super::GivenLength> {
-        let nonzero = || self.given_lengths.iter().filter(|g| g.metres != 0.0);
-        let largest = nonzero().max_by(|a, b| a.metres.abs().total_cmp(&b.metres.abs()))?;
-        if nonzero().count() < 3 {
+        let geometry = || self.geometry_lengths().filter(|g| g.metres != 0.0);
+        let largest = geometry().max_by(|a, b| a.metres.abs().total_cmp(&b.metres.abs()))?;
+        if geometry().count() < 3 {
             return (largest.plain && largest.metres.abs() > 1.0).then_some(largest);
         }
-        (largest.metres.abs() >= SUSPECT_RATIO * self.median_length()).then_some(largest)
+        let next = geometry()
+            .filter(|g| !std::ptr::eq(*g, largest))
+            .map(|g| g.metres.abs())
+            .fold(0.0, f64::max);
+        if largest.metres.abs() >= SUSPECT_RATIO * next {
+            return Some(largest);
+        }
+        let median = self.median_length();
+        self.given_lengths
+            .iter()
+            .filter(|g| g.key.starts_with("mesh."))
+            .filter(|g| g.metres * SUSPECT_RATIO * SUSPECT_RATIO <= median)
+            .min_by(|a, b| a.metres.total_cmp(&b.metres))
+    }
+
+    /// Lengths of the core and windings (not element sizes, not the surroundings).
+    fn geometry_lengths(&self) -> impl Iterator<Item = &super::GivenLength> {
+        self.given_lengths
+            .iter()
+            .filter(|g| g.key.starts_with("core.") || g.key.starts_with("winding["))
     }
 
     fn median_length(&self) -> f64 {
         let mut v: Vec<f64> = self
-            .given_lengths
-            .iter()
+            .geometry_lengths()
             .map(|g| g.metres.abs())
             .filter(|&m| m != 0.0)
             .collect();
@@ -136,6 +163,46 @@ length = "60 mm"
         let fine = parse_case(&format!("{ROD}[mesh]\nfineness = 20\n"), "c.toml").unwrap();
         let m = fine.explain_too_many_nodes("c.toml", 20000);
         assert!(m.starts_with("c.toml: mesh.fineness: "), "{m}");
+        // A surroundings radius 60× the median is ordinary (the fixed edge's default is 20×
+        // the source radius) and is not blamed.
+        let wide = format!("{ROD}[surroundings]\nradius = \"0.5 m\"\nedge = \"fixed\"\n");
+        let m = parse_case(&wide, "c.toml")
+            .unwrap()
+            .explain_too_many_nodes("c.toml", 20000);
+        assert!(m.starts_with("c.toml: mesh.max_nodes: "), "{m}");
+    }
+
+    #[test]
+    fn a_slender_core_is_not_taken_for_a_unit_slip() {
+        // L/D = 300 (search-coil cores reach a few hundred): the core length is 300× the
+        // median length but only 1.2× the winding's.
+        let slender = r#"
+[core]
+shape = "rod"
+length = "300 mm"
+diameter = "1 mm"
+mu_r = 1000
+[[winding]]
+turns = 100
+current = "1 mA"
+inner_radius = "0.6 mm"
+outer_radius = "0.8 mm"
+length = "250 mm"
+"#;
+        let m = parse_case(slender, "c.toml")
+            .unwrap()
+            .explain_too_many_nodes("c.toml", 20000);
+        assert!(m.starts_with("c.toml: mesh.max_nodes: "), "{m}");
+    }
+
+    #[test]
+    fn an_element_size_far_below_the_geometry_is_named() {
+        let tiny = format!("{ROD}[mesh]\ncore_size = \"1 um\"\n");
+        let m = parse_case(&tiny, "c.toml")
+            .unwrap()
+            .explain_too_many_nodes("c.toml", 20000);
+        assert!(m.starts_with("c.toml: mesh.core_size: "), "{m}");
+        assert!(m.contains("check its unit"), "{m}");
     }
 
     #[test]
