@@ -7,7 +7,7 @@
 //! first-order elements is O(h) for such a smooth solution (Ciarlet, *The Finite Element Method
 //! for Elliptic Problems*, 1978, Theorem 3.2.2), i.e. O(N^(−1/2)) in the number of unknowns N
 //! on quasi-uniformly refined meshes. Sketch: μr = 10 (a moderate jump, so the field outside
-//! matters as much as inside), a = 10 mm, B0 = 1 mT, fineness 1, 2, 4, the exact open boundary.
+//! matters as much as inside), a = 10 mm, B0 = 1 mT, fineness 1, 2, 4, the exact exterior.
 //! The fitted slope of log(error) against log(N) must lie in −0.5 ± 0.15 for first order and
 //! −1 ± 0.15 for second order (fineness 1, 2, 4 each; second-order elements are twice the size
 //! of first-order ones at the same fineness).

@@ -29,7 +29,7 @@ pub use mesh::{aspect_ratio, signed_area, triangle_angles, Mesh, MeshStats, Node
 pub use pslg::MIN_INPUT_ANGLE_DEG;
 pub use refine::MAX_SIZE_PASSES;
 pub use spec::{MeshSpec, Point, Refinement, Region, Shape};
-pub use validate::{MAX_MIN_ANGLE_DEG, OUTER_ARC_TOLERANCE};
+pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
 
 /// Builds the mesh described by `spec`, or says which input is wrong.
 ///

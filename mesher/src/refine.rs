@@ -72,7 +72,7 @@ fn triangulate_and_refine(spec: &MeshSpec, pslg: &Pslg) -> Result<Mesh, MeshErro
     }
 
     let field = SizeField::new(spec, &pslg.outlines);
-    let angle = AngleLimit::from_deg(spec.min_angle_deg);
+    let angle = AngleLimit::from_deg(spec.angle_floor_deg);
     let mut passes = 0;
     loop {
         let budget = limit.saturating_sub(cdt.num_vertices());

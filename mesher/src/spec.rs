@@ -103,7 +103,7 @@ pub struct MeshSpec {
     /// Smallest triangle angle to reach (degrees), 0 to 30. Not reachable where two input boundaries
     /// meet at a smaller angle (e.g. a rectangle resting on the tip of a half-ellipse):
     /// [`crate::Mesh::stats`] reports what was reached.
-    pub min_angle_deg: f64,
+    pub angle_floor_deg: f64,
     /// Largest relative chord sagitta (sagitta / radius of curvature) of curved region boundaries and
     /// interior arcs; the outer arc uses `max(arc_tolerance, 1e-3)`.
     pub arc_tolerance: f64,
@@ -117,7 +117,7 @@ impl MeshSpec {
     /// Default size growth per unit distance (common practice for smooth grading).
     pub const DEFAULT_GRADING: f64 = 0.25;
     /// Default quality target (degrees).
-    pub const DEFAULT_MIN_ANGLE_DEG: f64 = 25.0;
+    pub const DEFAULT_ANGLE_FLOOR_DEG: f64 = 25.0;
     /// Default relative sagitta of curved region boundaries.
     pub const DEFAULT_ARC_TOLERANCE: f64 = 1e-4;
     /// Default node cap.
@@ -134,7 +134,7 @@ impl MeshSpec {
             refinements: Vec::new(),
             far_size: Self::DEFAULT_FAR_FRACTION * outer_radius,
             grading: Self::DEFAULT_GRADING,
-            min_angle_deg: Self::DEFAULT_MIN_ANGLE_DEG,
+            angle_floor_deg: Self::DEFAULT_ANGLE_FLOOR_DEG,
             arc_tolerance: Self::DEFAULT_ARC_TOLERANCE,
             max_nodes: Self::DEFAULT_MAX_NODES,
         }

@@ -6,7 +6,7 @@ use crate::spec::{MeshSpec, Refinement, Shape};
 
 /// Largest quality target accepted: above 30° Delaunay refinement may not terminate (spade 2.15
 /// documentation of `AngleLimit::from_deg` and `RefinementParameters::with_angle_limit`).
-pub const MAX_MIN_ANGLE_DEG: f64 = 30.0;
+pub const MAX_ANGLE_FLOOR_DEG: f64 = 30.0;
 
 /// Outer-arc relative sagitta: the outer boundary is an artificial truncation of open space, so a
 /// coarser polygon than for the regions does no harm.
@@ -39,10 +39,10 @@ pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
             value: spec.grading,
         });
     }
-    let angle = spec.min_angle_deg;
-    if !(angle.is_finite() && (0.0..=MAX_MIN_ANGLE_DEG).contains(&angle)) {
+    let angle = spec.angle_floor_deg;
+    if !(angle.is_finite() && (0.0..=MAX_ANGLE_FLOOR_DEG).contains(&angle)) {
         return Err(MeshError::BadSize {
-            what: "min_angle_deg",
+            what: "angle_floor_deg",
             value: angle,
         });
     }

@@ -128,8 +128,11 @@ fn non_finite_and_non_positive_numbers_are_bad_sizes() {
         ("far_size", Box::new(|s| s.far_size = f64::NAN)),
         ("far_size", Box::new(|s| s.far_size = 0.0)),
         ("grading", Box::new(|s| s.grading = -0.1)),
-        ("min_angle_deg", Box::new(|s| s.min_angle_deg = 31.0)),
-        ("min_angle_deg", Box::new(|s| s.min_angle_deg = f64::NAN)),
+        ("angle_floor_deg", Box::new(|s| s.angle_floor_deg = 31.0)),
+        (
+            "angle_floor_deg",
+            Box::new(|s| s.angle_floor_deg = f64::NAN),
+        ),
         ("arc_tolerance", Box::new(|s| s.arc_tolerance = 0.0)),
         ("arc_tolerance", Box::new(|s| s.arc_tolerance = 1.0)),
         ("region size", Box::new(|s| s.regions[0].size = -1e-3)),

@@ -78,7 +78,7 @@ fn torquer_rod_mesh_holds_invariants() {
 }
 
 #[test]
-fn min_angle_reaches_requested_25_degrees() {
+fn angle_floor_of_25_degrees_is_reached() {
     let (_, mesh) = torquer_mesh();
     let stats = mesh.stats();
     assert!(stats.min_angle_deg >= 25.0, "{stats:?}");
@@ -87,9 +87,9 @@ fn min_angle_reaches_requested_25_degrees() {
 }
 
 #[test]
-fn min_angle_reaches_requested_30_degrees() {
+fn angle_floor_of_30_degrees_is_reached() {
     let mut spec = torquer_spec();
-    spec.min_angle_deg = 30.0;
+    spec.angle_floor_deg = 30.0;
     let mesh = build_mesh(&spec).expect("30° is the documented upper limit and must finish");
     let stats = mesh.stats();
     assert!(stats.min_angle_deg >= 30.0 - 1e-9, "{stats:?}");

@@ -1,4 +1,4 @@
-//! The exact open boundary: the energy of the field outside the meshed sphere, as a quadratic
+//! The exact exterior: the energy of the field outside the meshed sphere, as a quadratic
 //! form in the potential on its surface (a Dirichlet-to-Neumann map).
 //!
 //! Outside a sphere of radius R0 enclosing every source and every magnetic body, the reaction
@@ -27,9 +27,9 @@ use crate::element::ElementGeometry;
 use crate::mesh::FeMesh;
 use crate::{SolverError, MU0};
 
-/// The open boundary of a problem: the radius of the meshed sphere and its surface nodes.
+/// The exact exterior of a problem: the radius of the meshed sphere and its surface nodes.
 #[derive(Debug, Clone, PartialEq)]
-pub struct OpenBoundary {
+pub struct ExactExterior {
     /// Radius R0 of the outer sphere in m (the mesh's outer arc approximates it).
     pub radius: f64,
     /// Nodes on the outer arc (free unknowns; the two on the axis stay fixed at zero).
@@ -88,21 +88,21 @@ fn edge_point(g: &ElementGeometry, l: [f64; 3], la: usize, lb: usize) -> ([f64; 
     }
 }
 
-/// Builds D for `open` on `mesh`, whose element geometries are `geom` (their basis decides
+/// Builds D for `ext` on `mesh`, whose element geometries are `geom` (their basis decides
 /// the trace of each nodal function on the arc).
 pub fn exterior_operator(
     mesh: &FeMesh,
     geom: &[ElementGeometry],
-    open: &OpenBoundary,
+    ext: &ExactExterior,
 ) -> Result<ExteriorOperator, SolverError> {
-    if !(open.radius.is_finite() && open.radius > 0.0) || open.modes == 0 {
+    if !(ext.radius.is_finite() && ext.radius > 0.0) || ext.modes == 0 {
         return Err(SolverError::BadMaterial(format!(
-            "open boundary needs a positive radius and at least one mode (radius {}, modes {})",
-            open.radius, open.modes
+            "exact exterior needs a positive radius and at least one mode (radius {}, modes {})",
+            ext.radius, ext.modes
         )));
     }
     let mut index = vec![usize::MAX; mesh.nodes.len()];
-    for (k, &n) in open.nodes.iter().enumerate() {
+    for (k, &n) in ext.nodes.iter().enumerate() {
         if n as usize >= mesh.nodes.len() {
             return Err(SolverError::BadNodeIndex {
                 triangle: usize::MAX,
@@ -127,8 +127,8 @@ pub fn exterior_operator(
     }
     edges.retain(|([u, v], _, _)| seen[&((*u).min(*v), (*u).max(*v))] == 1);
 
-    let nb = open.nodes.len();
-    let nm = open.modes;
+    let nb = ext.nodes.len();
+    let nm = ext.modes;
     // w[n][k] = ∫ φ_k P_n^1(cos θ) sin θ dθ along the arc.
     let mut w = vec![vec![0.0; nb]; nm + 1];
     // 8-point Gauss–Legendre on each edge: the trace is smooth on an edge.
@@ -173,7 +173,7 @@ pub fn exterior_operator(
     // dθ has one sign throughout: fix it so that ∫ sin θ P_1^1 sin θ dθ comes out positive.
     let test: f64 = (0..nb)
         .map(|k| {
-            let q = mesh.nodes[open.nodes[k] as usize];
+            let q = mesh.nodes[ext.nodes[k] as usize];
             w[1][k] * q[0].atan2(q[1]).sin()
         })
         .sum();
@@ -188,7 +188,7 @@ pub fn exterior_operator(
     let mut d = vec![0.0; nb * nb];
     for (n, wn) in w.iter().enumerate().skip(1) {
         let nf = n as f64;
-        let kappa = std::f64::consts::PI * nu0 * open.radius * (2.0 * nf + 1.0) / (nf + 1.0);
+        let kappa = std::f64::consts::PI * nu0 * ext.radius * (2.0 * nf + 1.0) / (nf + 1.0);
         for i in 0..nb {
             if wn[i] == 0.0 {
                 continue;
@@ -199,7 +199,7 @@ pub fn exterior_operator(
         }
     }
     Ok(ExteriorOperator {
-        nodes: open.nodes.clone(),
+        nodes: ext.nodes.clone(),
         d,
     })
 }
@@ -256,7 +256,7 @@ mod tests {
         let op = exterior_operator(
             &mesh,
             &geom,
-            &OpenBoundary {
+            &ExactExterior {
                 radius: r0,
                 nodes: outer.clone(),
                 modes: 8,

@@ -28,7 +28,7 @@
 //! - [`quadratic`]: second-order meshes (mid-edge nodes on curved outlines).
 //! - [`problem`], [`solve`]: what to solve and the linear solve.
 //! - [`nonlinear`]: Newton's method for saturating materials.
-//! - [`exterior`]: the exact open boundary (exterior multipole energy).
+//! - [`exterior`]: the exact exterior (exterior multipole energy).
 //! - [`field`], [`locate`], [`recover`]: the solved field, evaluation at points, patch recovery.
 //! - [`post`]: dipole moment, energy, flux linkage, probes, core peak field.
 //! - [`export`]: VTK output.

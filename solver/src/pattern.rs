@@ -41,7 +41,7 @@ impl Pattern {
     }
 
     /// As [`Self::new`], plus every coupling among the free unknowns `group` (a dense block,
-    /// e.g. the surface nodes of an exact open boundary).
+    /// e.g. the surface nodes of an exact exterior).
     pub fn with_dense_group(mesh: &FeMesh, dofs: &DofMap, group: &[usize]) -> Self {
         let n = dofs.n_free;
         let ne = if mesh.order() == 2 { 6 } else { 3 };

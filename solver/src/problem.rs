@@ -35,8 +35,8 @@ pub struct Problem {
     pub fixed: Vec<(u32, f64)>,
     /// Uniform background flux density along +z, T (enters as the exact field B0 e_z).
     pub background_b: f64,
-    /// The exact open boundary on the outer arc (None: the arc's nodes are in `fixed`).
-    pub open_boundary: Option<crate::exterior::OpenBoundary>,
+    /// The exact exterior on the outer arc (None: the arc's nodes are in `fixed`).
+    pub exact_exterior: Option<crate::exterior::ExactExterior>,
 }
 
 impl Problem {

@@ -5,7 +5,7 @@ use crate::assembly;
 use crate::cholesky::{SpdFactor, SymbolicSpd};
 use crate::dofs::DofMap;
 use crate::element::ElementGeometry;
-use crate::exterior::{exterior_operator, ExteriorOperator, OpenBoundary};
+use crate::exterior::{exterior_operator, ExactExterior, ExteriorOperator};
 use crate::field::Solution;
 use crate::material::Material;
 use crate::mesh::FeMesh;
@@ -28,11 +28,11 @@ pub struct Model {
     /// Constant element stiffness of linear elements for the Newton residual (lazy).
     pub(crate) linear_elements: std::sync::OnceLock<Vec<Option<crate::nonlinear::LinearElement>>>,
     pub(crate) exterior: Option<Exterior>,
-    /// The open boundary as posed (to pose the first-order companion problem).
-    pub(crate) open_boundary: Option<OpenBoundary>,
+    /// The exact exterior as posed (to pose the first-order companion problem).
+    pub(crate) exact_exterior: Option<ExactExterior>,
 }
 
-/// The exact open boundary's operator with its place in the pattern.
+/// The exact exterior's operator with its place in the pattern.
 #[derive(Debug)]
 pub(crate) struct Exterior {
     pub(crate) op: ExteriorOperator,
@@ -52,7 +52,7 @@ impl Model {
             regions,
             fixed,
             background_b,
-            open_boundary,
+            exact_exterior,
         } = problem;
         let magnetic: Vec<bool> = (0..mesh.triangles.len())
             .map(|e| regions[mesh.tags[e] as usize].material.is_magnetic())
@@ -107,10 +107,10 @@ impl Model {
             });
         }
         let dofs = DofMap::new(mesh.nodes.len(), &fixed_nodes);
-        let exterior = match &open_boundary {
+        let exterior = match &exact_exterior {
             Some(ob) => {
                 // Surface nodes held by a Dirichlet value (the two on the axis) drop out.
-                let ob = OpenBoundary {
+                let ob = ExactExterior {
                     nodes: ob
                         .nodes
                         .iter()
@@ -158,12 +158,12 @@ impl Model {
             background: background_b,
             linear_elements: std::sync::OnceLock::new(),
             exterior,
-            open_boundary: open_boundary.clone(),
+            exact_exterior: exact_exterior.clone(),
         })
     }
 
-    /// Whether the problem has the exact open boundary.
-    pub fn has_open_boundary(&self) -> bool {
+    /// Whether the problem has the exact exterior.
+    pub fn has_exact_exterior(&self) -> bool {
         self.exterior.is_some()
     }
 

@@ -5,6 +5,11 @@
 
 /// Parses the points `[H, B]`; the error names the line and what is wrong with it.
 pub fn parse(text: &str) -> Result<Vec<[f64; 2]>, String> {
+    Ok(parse_rows(text)?.into_iter().map(|(_, p)| p).collect())
+}
+
+/// Parses the points with the 1-based line number each came from (for faults found later).
+pub fn parse_rows(text: &str) -> Result<Vec<(usize, [f64; 2])>, String> {
     let mut points = Vec::new();
     for (i, raw) in text.lines().enumerate() {
         let line = raw.trim();
@@ -20,8 +25,14 @@ pub fn parse(text: &str) -> Result<Vec<[f64; 2]>, String> {
             continue; // header
         }
         match nums.as_slice() {
-            [Some(h), Some(b)] if h.is_finite() && b.is_finite() => points.push([*h, *b]),
+            [Some(h), Some(b)] if h.is_finite() && b.is_finite() => points.push((i + 1, [*h, *b])),
             _ => {
+                if let Some(fix) = decimal_comma_fix(line) {
+                    return Err(format!(
+                        "line {}: '{line}' looks like ';' between columns and ',' as decimal point: write '{fix}' (',' between the columns, '.' as decimal point)",
+                        i + 1
+                    ));
+                }
                 // At most 60 characters of the line: the message stays one readable line.
                 let shown: String = line.chars().take(60).collect();
                 let more = if line.chars().count() > 60 { "…" } else { "" };
@@ -36,6 +47,25 @@ pub fn parse(text: &str) -> Result<Vec<[f64; 2]>, String> {
         return Err("no data lines".into());
     }
     Ok(points)
+}
+
+/// The line rewritten with '.' decimals and ',' between columns, if it reads as exactly two
+/// numbers once its columns are split at ';', tabs or spaces and its commas made points
+/// (a spreadsheet export in a locale with decimal commas: "10;0,5").
+fn decimal_comma_fix(line: &str) -> Option<String> {
+    if !line.contains(',') {
+        return None;
+    }
+    let cols: Vec<String> = line
+        .split(|c: char| c == ';' || c.is_whitespace())
+        .filter(|c| !c.is_empty())
+        .map(|c| c.replace(',', "."))
+        .collect();
+    let ok = cols.len() == 2
+        && cols
+            .iter()
+            .all(|c| c.parse::<f64>().is_ok_and(f64::is_finite));
+    ok.then(|| cols.join(","))
 }
 
 /// Index of the first line that is neither blank nor a comment.
@@ -76,6 +106,24 @@ mod tests {
         assert!(e.contains("line 2"), "{e}");
         assert!(parse("0,0,1\n").is_err());
         assert!(parse("# only a comment\n").is_err());
+    }
+
+    #[test]
+    fn semicolons_with_decimal_commas_are_explained_with_the_fix() {
+        let e = parse("H;B\n0;0\n10;0,5\n").unwrap_err();
+        assert!(e.contains("line 3"), "{e}");
+        assert!(e.contains("write '10,0.5'"), "{e}");
+        let e = parse("0\t0\n10\t0,5\n").unwrap_err();
+        assert!(e.contains("write '10,0.5'"), "{e}");
+        // Three plain numbers are three columns, not a decimal comma.
+        let e = parse("0,0,1\n").unwrap_err();
+        assert!(!e.contains("decimal point"), "{e}");
+    }
+
+    #[test]
+    fn rows_keep_their_line_numbers() {
+        let rows = parse_rows("# c\nH,B\n0,0\n\n5,0.2\n").unwrap();
+        assert_eq!(rows, vec![(3, [0.0, 0.0]), (5, [5.0, 0.2])]);
     }
 
     #[test]

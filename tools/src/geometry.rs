@@ -88,10 +88,10 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
     } else {
         case.mesh.fineness
     };
-    let ro = case.effective_air_radius();
+    let ro = case.effective_surroundings_radius();
     let mut spec = MeshSpec::new(ro, AIR_TAG);
     spec.grading = case.mesh.grading.unwrap_or(0.15 / f);
-    spec.min_angle_deg = case.mesh.min_angle_deg;
+    spec.angle_floor_deg = case.mesh.angle_floor_deg;
     spec.arc_tolerance = case.mesh.effective_arc_tolerance();
     if let (2, None, Some(core)) = (case.mesh.order, case.mesh.arc_tolerance, &case.core) {
         if let CoreShape::Spheroid { .. } = core.shape {

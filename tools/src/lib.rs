@@ -13,12 +13,14 @@ pub mod commands;
 pub mod geometry;
 pub mod operating_point;
 pub mod output;
+pub mod output_names;
 pub mod pipeline;
 pub mod plot;
 pub mod progress;
 pub mod ramp;
 
 pub mod report;
+pub mod suggest;
 pub mod units;
 pub mod vtk_map;
 

@@ -4,14 +4,14 @@
 use std::time::Instant;
 
 use axicore_mesher::{build_mesh, MeshError, NodeKind};
-use axicore_solver::exterior::OpenBoundary;
+use axicore_solver::exterior::ExactExterior;
 use axicore_solver::locate::Locator;
 use axicore_solver::post::indicator::{self, ElementIndicator};
 use axicore_solver::post::{dipole, energy, flux, probe};
 use axicore_solver::quadratic;
 use axicore_solver::{FeMesh, Model, Problem, RegionProps, Solution, SolverError};
 
-use crate::case::Case;
+use crate::case::{Case, Edge};
 use crate::geometry::{self, winding_tag, AIR_TAG, CORE_TAG};
 use crate::operating_point;
 use crate::report::{CoreReport, MeshReport, PointReport, Report, Timings, WindingReport};
@@ -78,14 +78,14 @@ pub enum RunError {
     #[error("solve failed: {0}")]
     Solve(#[from] SolverError),
     /// A probe point or line lies outside the meshed region.
-    #[error("{option}: {source} (meshed air radius {air_radius_m:.4} m)")]
+    #[error("{option}: {source} (meshed surroundings radius {surroundings_radius_m:.4} m)")]
     Probe {
         /// The command-line option that asked for the point (`--point`, `--line`).
         option: &'static str,
         /// What went wrong.
         source: SolverError,
-        /// Radius of the meshed air sphere, m.
-        air_radius_m: f64,
+        /// Radius of the meshed surroundings, m.
+        surroundings_radius_m: f64,
     },
 }
 
@@ -125,7 +125,7 @@ pub fn discretise_refined(
     for (k, w) in case.windings.iter().enumerate() {
         regions[winding_tag(k) as usize].current_density = w.current_density();
     }
-    let ro = case.effective_air_radius();
+    let ro = case.effective_surroundings_radius();
     let first = FeMesh {
         nodes: mesh.nodes.clone(),
         triangles: mesh.triangles.clone(),
@@ -134,7 +134,8 @@ pub fn discretise_refined(
     };
     let mut kinds = mesh.node_kinds.clone();
     let fe_mesh = if case.mesh.order == 2 {
-        let (fe, added) = quadratic::elevate(&first, &outlines(case, ro), case.mesh.min_angle_deg);
+        let (fe, added) =
+            quadratic::elevate(&first, &outlines(case, ro), case.mesh.angle_floor_deg);
         for (k, m) in added.iter().enumerate() {
             let parent = m.parents.map(|p| mesh.node_kinds[p as usize]);
             let kind = if fe.nodes[mesh.nodes.len() + k][0] == 0.0 {
@@ -156,7 +157,7 @@ pub fn discretise_refined(
     } else {
         first
     };
-    // A = 0 on the axis. On the outer arc either the exact exterior (open boundary) or the
+    // A = 0 on the axis. On the outer arc either the exact exterior or the
     // reaction part vanishes, so A = B0 r/2 there (the solver adds the background exactly).
     let outer: Vec<u32> = kinds
         .iter()
@@ -169,11 +170,11 @@ pub fn discretise_refined(
         .enumerate()
         .filter_map(|(i, kind)| match kind {
             NodeKind::Axis => Some((i as u32, 0.0)),
-            NodeKind::Outer if !case.open_boundary => Some((i as u32, 0.0)),
+            NodeKind::Outer if case.edge == Edge::Fixed => Some((i as u32, 0.0)),
             _ => None,
         })
         .collect();
-    let open_boundary = case.open_boundary.then(|| OpenBoundary {
+    let exact_exterior = (case.edge == Edge::Exact).then(|| ExactExterior {
         radius: ro,
         modes: exterior_modes(ro / case.source_radius(), outer.len()),
         nodes: outer,
@@ -183,13 +184,13 @@ pub fn discretise_refined(
         regions,
         fixed,
         background_b: case.background_b,
-        open_boundary,
+        exact_exterior,
     };
     Ok(Discretised { mesh, problem })
 }
 
 /// The curved outlines second-order elements follow: a sphere or spheroid core, and the outer
-/// air sphere of radius `ro`.
+/// sphere of radius `ro` that bounds the surroundings.
 fn outlines(case: &Case, ro: f64) -> Vec<quadratic::Outline> {
     let mut out = vec![quadratic::Outline::Ellipse {
         centre_z: 0.0,
@@ -233,7 +234,7 @@ fn near_axis(model: &Model, locator: &Locator, p: [f64; 2]) -> bool {
         .is_some_and(|(e, _)| p[0] < 2.0 * model.mesh().longest_edge(e))
 }
 
-/// Multipole modes for the open boundary: enough that the first mode left out decays below
+/// Multipole modes for the exact exterior: enough that the first mode left out decays below
 /// 1e-12 of the dipole's share, (r_sources/R0)^n < 1e-12, but no more than half the nodes on
 /// the arc can resolve.
 fn exterior_modes(radius_ratio: f64, arc_nodes: usize) -> usize {
@@ -305,9 +306,9 @@ pub fn run_from(
         1.0,
     )?;
     let total = fig.total;
-    let ro = case.effective_air_radius();
+    let ro = case.effective_surroundings_radius();
     let rb = geometry::ball_radius(case);
-    let shell = (!case.open_boundary).then_some(ro);
+    let shell = (case.edge == Edge::Fixed).then_some(ro);
     let ball = dipole::ball_moment(&model, &sol, &locator, rb, case.background_b, shell)?;
     let difference = if total != 0.0 {
         (ball - total).abs() / total.abs()
@@ -403,7 +404,7 @@ pub fn run_from(
                 .map_err(|source| RunError::Probe {
                     option: "--point",
                     source,
-                    air_radius_m: ro,
+                    surroundings_radius_m: ro,
                 })?;
             report.low_accuracy_near_axis =
                 case.core.is_some() && report.region == AIR_TAG && near_axis(&model, &locator, p);
@@ -417,7 +418,7 @@ pub fn run_from(
                     RunError::Probe {
                         option: "--line",
                         source,
-                        air_radius_m: ro,
+                        surroundings_radius_m: ro,
                     }
                 })?;
             Some(crate::report::line_csv(&samples))
@@ -475,7 +476,7 @@ pub fn run_from(
         energy_J: w_energy,
         max_core_b_T: core.as_ref().and_then(|c| c.max_b_T),
         background_b_T: case.background_b,
-        air_radius_m: ro,
+        surroundings_radius_m: ro,
         ball_radius_m: rb,
         nodes: model.mesh().nodes.len(),
         triangles: stats.triangles,
@@ -484,7 +485,7 @@ pub fn run_from(
             triangles_air: per_tag(AIR_TAG),
             triangles_core: per_tag(CORE_TAG),
             triangles_windings: (0..nw).map(|k| per_tag(winding_tag(k))).collect(),
-            min_angle_deg: stats.min_angle_deg,
+            smallest_angle_deg: stats.min_angle_deg,
             max_aspect_ratio: stats.max_aspect_ratio,
         },
         core,

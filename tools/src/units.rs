@@ -148,9 +148,7 @@ pub fn parse(text: &str, dim: Dimension) -> Result<f64, String> {
         })
         .map_or(s.len(), |(i, _)| i);
     let (num, unit) = (s[..split].trim(), s[split..].trim());
-    let value: f64 = num
-        .parse()
-        .map_err(|_| format!("'{text}' is not a number followed by a unit"))?;
+    let value: f64 = num.parse().map_err(|_| not_a_number(text, num, unit))?;
     if !value.is_finite() {
         return Err(format!("'{text}' is not finite"));
     }
@@ -166,9 +164,47 @@ pub fn parse(text: &str, dim: Dimension) -> Result<f64, String> {
         Some(f) => Ok(value * f),
         None => match dimension_of(unit) {
             Some(other) => Err(format!("unit '{unit}' is {other}, but {dim} is expected")),
-            None => Err(format!("unknown unit '{unit}' (expected {dim})")),
+            None => Err(format!(
+                "unknown unit '{unit}'{} (expected {dim})",
+                unit_hint(unit, dim)
+            )),
         },
     }
+}
+
+/// The fault of a number part that does not parse, recognising a decimal comma ("4,2 mm").
+fn not_a_number(text: &str, num: &str, unit: &str) -> String {
+    let dotted = num.replace(',', ".");
+    if num.matches(',').count() == 1 && dotted.parse::<f64>().is_ok() {
+        let unit = if unit.is_empty() {
+            String::new()
+        } else {
+            format!(" {unit}")
+        };
+        return format!("'{text}' has a decimal comma: write {dotted}{unit}");
+    }
+    format!("'{text}' is not a number followed by a unit")
+}
+
+/// " (did you mean 'mA'?)" for a unit symbol one letter or one letter's case away from a
+/// symbol of `dim` (the shared [`crate::suggest`] rule, held to distance 1: unit symbols are
+/// short, and a looser match suggests metres for "in" or "ft").
+fn unit_hint(unit: &str, dim: Dimension) -> String {
+    let mut symbols: Vec<String> = Vec::new();
+    for &(base, _) in bases(dim) {
+        symbols.push(base.to_string());
+        for &(prefix, _) in &PREFIXES {
+            let symbol = format!("{prefix}{base}");
+            // Megametres are never meant (above the supported 1 km): "MM" is millimetres.
+            if factor(&symbol, dim).is_some() && symbol != "Mm" {
+                symbols.push(symbol);
+            }
+        }
+    }
+    let known: Vec<&str> = symbols.iter().map(String::as_str).collect();
+    crate::suggest::nearest(unit, &known, 1)
+        .map(|k| format!(" (did you mean '{k}'?)"))
+        .unwrap_or_default()
 }
 
 /// True if the 'e' at byte `i` is an exponent marker (digit before, digit or sign after).
@@ -219,5 +255,29 @@ mod tests {
         assert!(parse("abc", Dimension::Length).is_err());
         assert!(parse("inf m", Dimension::Length).is_err());
         assert!(parse("5 cA", Dimension::Current).is_err());
+    }
+
+    #[test]
+    fn a_unit_in_the_wrong_case_or_one_letter_off_gets_a_did_you_mean() {
+        let e = parse("40 ma", Dimension::Current).unwrap_err();
+        assert!(e.contains("unknown unit 'ma' (did you mean 'mA'?)"), "{e}");
+        let e = parse("3 MM", Dimension::Length).unwrap_err();
+        assert!(e.contains("did you mean 'mm'?"), "{e}");
+        let e = parse("2 kam", Dimension::FieldStrength).unwrap_err();
+        assert!(e.contains("did you mean 'kA/m'?"), "{e}");
+        let e = parse("1 mt", Dimension::FluxDensity).unwrap_err();
+        assert!(e.contains("did you mean 'mT'?"), "{e}");
+        let e = parse("5 in", Dimension::Length).unwrap_err();
+        assert!(!e.contains("did you mean"), "{e}");
+    }
+
+    #[test]
+    fn a_decimal_comma_is_recognised_and_the_fix_written_out() {
+        let e = parse("4,2 mm", Dimension::Length).unwrap_err();
+        assert!(e.contains("decimal comma: write 4.2 mm"), "{e}");
+        let e = parse("0,5", Dimension::Dimensionless).unwrap_err();
+        assert!(e.contains("decimal comma: write 0.5"), "{e}");
+        let e = parse("1,000,000 mm", Dimension::Length).unwrap_err();
+        assert!(e.contains("not a number"), "{e}");
     }
 }

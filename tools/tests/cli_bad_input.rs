@@ -4,11 +4,17 @@
 use std::path::PathBuf;
 use std::process::Command;
 
-fn run_case(name: &str, toml: &str) -> (i32, String, PathBuf) {
+/// Writes `toml` as case.toml (and `extra` files beside it) into a fresh directory and runs
+/// `axicore solve` on it with a VTK output there.
+fn run_case(name: &str, toml: &str, extra: &[(&str, &str)]) -> (i32, String, PathBuf) {
     let dir = std::env::temp_dir().join(format!("axicore-bad-{name}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
     std::fs::create_dir_all(&dir).unwrap();
     let case = dir.join("case.toml");
     std::fs::write(&case, toml).unwrap();
+    for (file, text) in extra {
+        std::fs::write(dir.join(file), text).unwrap();
+    }
     let vtk = dir.join("out.vtu");
     let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
         .args([
@@ -38,7 +44,12 @@ length = "60 mm"
 "#;
 
 fn expect_fault(name: &str, toml: &str, needles: &[&str]) {
-    let (code, err, dir) = run_case(name, toml);
+    expect_fault_with(name, toml, &[], needles);
+}
+
+/// [`expect_fault`] with `extra` input files beside the case (a B–H CSV).
+fn expect_fault_with(name: &str, toml: &str, extra: &[(&str, &str)], needles: &[&str]) {
+    let (code, err, dir) = run_case(name, toml, extra);
     assert_eq!(code, 2, "{name}: exit code {code}, stderr {err}");
     assert_eq!(err.trim().lines().count(), 1, "{name}: not one line: {err}");
     assert!(err.contains("case.toml"), "{name}: file not named: {err}");
@@ -50,7 +61,11 @@ fn expect_fault(name: &str, toml: &str, needles: &[&str]) {
         .unwrap()
         .map(|e| e.unwrap().file_name())
         .collect();
-    assert_eq!(leftovers.len(), 1, "{name}: output written: {leftovers:?}");
+    assert_eq!(
+        leftovers.len(),
+        1 + extra.len(),
+        "{name}: output written: {leftovers:?}"
+    );
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -155,11 +170,11 @@ fn overlapping_windings_are_refused() {
 }
 
 #[test]
-fn region_outside_the_air_region_is_refused() {
+fn sources_reaching_beyond_the_surroundings_are_refused() {
     expect_fault(
-        "air",
-        &format!("{GOOD}\n[air]\nradius = \"40 mm\"\n"),
-        &["air.radius", "too small"],
+        "surroundings",
+        &format!("{GOOD}\n[surroundings]\nradius = \"40 mm\"\n"),
+        &["surroundings.radius", "too small"],
     );
 }
 
@@ -385,4 +400,131 @@ fn inputs_that_are_not_regular_files_are_refused_without_reading_them() {
     let dir = std::env::temp_dir();
     let err = expect_option_fault(&["solve", dir.to_str().unwrap()]);
     assert!(err.contains("not a regular file"), "{err}");
+}
+
+#[test]
+fn keys_of_the_earlier_schema_are_refused_with_their_new_names() {
+    for (name, case, needles) in [
+        (
+            "old-min-angle",
+            format!("{GOOD}[mesh]\nmin_angle = 25\n"),
+            &["mesh.min_angle: renamed to mesh.angle_floor"][..],
+        ),
+        (
+            "old-air",
+            format!("{GOOD}[air]\nradius = \"0.5 m\"\n"),
+            &["air: renamed to surroundings", "open → exact"][..],
+        ),
+        (
+            "old-boundary",
+            format!("{GOOD}[surroundings]\nboundary = \"open\"\n"),
+            &["surroundings.boundary: renamed to surroundings.edge"][..],
+        ),
+        (
+            "old-truncated",
+            format!("{GOOD}[surroundings]\nedge = \"truncated\"\n"),
+            &["surroundings.edge: 'truncated' is now called 'fixed'"][..],
+        ),
+        (
+            "air-material",
+            GOOD.replace("nickel-iron-80", "air"),
+            &["core.material", "leave out [core]", "mu_r = 1"][..],
+        ),
+    ] {
+        expect_fault(name, &case, needles);
+    }
+}
+
+#[test]
+fn a_unit_typed_in_the_wrong_case_gets_a_did_you_mean() {
+    expect_fault(
+        "unit-case",
+        &GOOD.replace("\"40 mA\"", "\"40 ma\""),
+        &[
+            "winding[1].current",
+            "unknown unit 'ma' (did you mean 'mA'?)",
+        ],
+    );
+}
+
+#[test]
+fn a_decimal_comma_in_a_quantity_is_explained() {
+    expect_fault(
+        "decimal-comma",
+        &GOOD.replace("\"4.2 mm\"", "\"4,2 mm\""),
+        &["winding[1].inner_radius", "decimal comma: write 4.2 mm"],
+    );
+}
+
+#[test]
+fn a_csv_with_semicolons_and_decimal_commas_is_explained() {
+    let case = GOOD.replace(
+        "material = \"nickel-iron-80\"",
+        "[core.bh_curve]\nfile = \"curve.csv\"",
+    );
+    expect_fault_with(
+        "csv-comma",
+        &case,
+        &[("curve.csv", "H;B\n0;0\n10;0,5\n100;1,2\n")],
+        &["core.bh_curve.file", "line 3", "write '10,0.5'"],
+    );
+}
+
+#[test]
+fn an_empty_case_file_suggests_the_example() {
+    expect_fault("empty", "\n# nothing yet\n", &["axicore example > my.toml"]);
+}
+
+#[test]
+fn a_non_monotone_table_names_the_column_and_point_at_fault() {
+    let inline = |h: &str, b: &str| {
+        GOOD.replace(
+            "material = \"nickel-iron-80\"",
+            &format!("[core.bh_curve]\nh = {h}\nb = {b}"),
+        )
+    };
+    expect_fault(
+        "h-back",
+        &inline("[100, 300, 200, 1000]", "[0.5, 0.8, 0.9, 1.2]"),
+        &["core.bh_curve.h[3]", "H must increase strictly"],
+    );
+    expect_fault(
+        "b-back",
+        &inline("[100, 200, 300, 1000]", "[0.5, 0.8, 0.7, 1.2]"),
+        &["core.bh_curve.b[3]", "B must increase strictly"],
+    );
+    let csv = GOOD.replace(
+        "material = \"nickel-iron-80\"",
+        "[core.bh_curve]\nfile = \"curve.csv\"",
+    );
+    expect_fault_with(
+        "csv-back",
+        &csv,
+        &[(
+            "curve.csv",
+            "H_A_per_m,B_T\n100,0.5\n200,0.8\n300,0.7\n1000,1.2\n",
+        )],
+        &[
+            "core.bh_curve.file",
+            "line 4, column 2 (B)",
+            "B must increase",
+        ],
+    );
+}
+
+#[test]
+fn a_syntax_fault_in_a_nested_table_names_its_own_line() {
+    let law = GOOD.replace(
+        "material = \"nickel-iron-80\"",
+        "[core.law]\nkind = \"knee\"\nsaturation = 1.5 T",
+    );
+    let line = law.lines().position(|l| l.contains("1.5 T")).unwrap() + 1;
+    expect_fault(
+        "nested-law",
+        &law,
+        &[&format!("line {line},"), "malformed TOML"],
+    );
+    let deep = format!("{GOOD}\n[{}]\nb = 1\n", vec!["a"; 200].join("."));
+    let line = deep.lines().position(|l| l.starts_with("[a.a")).unwrap() + 1;
+    expect_fault("nested-deep", &deep, &[&format!("line {line},")]);
 }

@@ -32,12 +32,13 @@ length = "30 mm"
 centre = "0 mm"
 [background]
 b_axial = "50 uT"
-[air]
-boundary = "truncated"
+[surroundings]
+edge = "fixed"
 radius = "0.5 m"
 [mesh]
 fineness = 0.3
 order = 1
+angle_floor = 25
 max_nodes = 200000
 [solver]
 max_iterations = 30

@@ -52,7 +52,7 @@ pub fn torquer_spec() -> MeshSpec {
     let mut spec = MeshSpec::new(1.0, AIR);
     spec.far_size = 0.1;
     spec.grading = 0.25;
-    spec.min_angle_deg = 25.0;
+    spec.angle_floor_deg = 25.0;
     spec.regions = vec![
         Region {
             tag: CORE,

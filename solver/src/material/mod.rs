@@ -10,6 +10,7 @@ mod invert;
 pub(crate) use invert::solve_increasing;
 mod laws;
 mod table;
+mod table_check;
 
 use std::sync::Arc;
 
@@ -25,6 +26,7 @@ pub const MAX_MU_R: f64 = 1e7;
 /// (typical values, from memory); far below, Newton met NaN residuals.
 pub const MIN_SATURATION: f64 = 1e-3;
 pub use table::BhTable;
+pub use table_check::{check_bh_points, BhColumn, BhTableFault};
 
 use crate::{SolverError, MU0};
 

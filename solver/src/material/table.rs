@@ -14,12 +14,8 @@
 //! on which dH/dB ramps linearly from the interpolant's end slope to 1/μ0, then a straight line
 //! of slope 1/μ0 whose offset B − μ0 H is the saturation polarisation.
 
-use super::MAX_MU_R;
+use super::table_check::validate;
 use crate::{SolverError, MU0};
-
-/// Relative slack in the μr ≥ 1 checks, so that round-off in tabulated deep-saturation points
-/// (B = Js + μ0 H exactly) is not rejected.
-const VACUUM_SLACK: f64 = 1e-9;
 
 /// One polynomial piece H(b0 + u) = h0 + u (c1 + u (c2 + u c3)), valid for u ≥ 0 up to the
 /// next piece; `w0` = ∫_0^b0 H dB.
@@ -62,120 +58,6 @@ impl Piece {
 pub struct BhTable {
     points: Vec<[f64; 2]>,
     pieces: Vec<Piece>,
-}
-
-/// Largest differential relative permeability of a table segment: on a steep (square-loop)
-/// digitised curve it runs several times the secant maximum (1.2e7 seen against a secant μr
-/// below 1e7), so the bound is looser.
-const MAX_SEGMENT_MU_R: f64 = 1e9;
-/// Largest H (A/m) and B (T) of a table point.
-const MAX_H: f64 = 1e12;
-const MAX_B: f64 = 1e3;
-/// Smallest nonzero H (A/m) and B (T) of a table point: a point at (1e-300 A/m, 1e-300 T)
-/// made the tangent singular (the cubic coefficients, ∝ 1/ΔB², overflow).
-const MIN_H: f64 = 1e-9;
-const MIN_B: f64 = 1e-12;
-
-/// Checks the points as given (indices are the caller's) before the origin is added.
-fn validate(points: &[[f64; 2]]) -> Result<(), SolverError> {
-    if points.len() < 3 {
-        let n = points.len();
-        let why = format!("a B–H table needs at least 3 points besides the origin (0, 0), got {n}");
-        return Err(SolverError::BadMaterial(why));
-    }
-    for (i, &[h, b]) in points.iter().enumerate() {
-        let prev = i.checked_sub(1).map(|j| (j, points[j]));
-        if let Some(why) = point_problem(h, b, prev) {
-            // Numbered from 1, as the case file's h[1], b[1] and the CSV's data rows.
-            let at = format!(
-                "B–H point {} (H = {} A/m, B = {} T)",
-                i + 1,
-                short(h),
-                short(b)
-            );
-            return Err(SolverError::BadMaterial(format!("{at}: {why}")));
-        }
-    }
-    Ok(())
-}
-
-/// `v` for a message, to 7 significant digits: plain between 1e-3 and 1e6, else in exponent
-/// form (not 300 digits).
-fn short(v: f64) -> String {
-    let s = format!("{v:.6e}");
-    // Round to 7 significant digits, then print the shortest form of that value.
-    let r: f64 = s.parse().unwrap_or(v);
-    if r == 0.0 || (1e-3..1e6).contains(&r.abs()) {
-        format!("{r}")
-    } else {
-        format!("{r:e}")
-    }
-}
-
-/// What is wrong with point `[h, b]` given its predecessor, if anything.
-fn point_problem(h: f64, b: f64, prev: Option<(usize, [f64; 2])>) -> Option<String> {
-    if !h.is_finite() || !b.is_finite() {
-        return Some("values are not finite".into());
-    }
-    if h < 0.0 || b < 0.0 {
-        return Some("H and B must be ≥ 0 (the law is of |B|)".into());
-    }
-    if h == 0.0 && b != 0.0 {
-        return Some("B must be 0 at H = 0 (no remanence: the law passes the origin)".into());
-    }
-    if b < MU0 * h * (1.0 - VACUUM_SLACK) {
-        return Some(format!(
-            "relative permeability B/(μ0 H) = {} < 1",
-            short(b / (MU0 * h))
-        ));
-    }
-    if h > MAX_H || b > MAX_B {
-        return Some(format!("above the supported {MAX_H:e} A/m or {MAX_B:e} T"));
-    }
-    if h != 0.0 && (h < MIN_H || b < MIN_B) {
-        return Some(format!(
-            "a nonzero point must reach {MIN_H:e} A/m and {MIN_B:e} T (below, the cubic pieces' \
-             coefficients, ∝ 1/ΔB², overflow)"
-        ));
-    }
-    if b > MAX_MU_R * MU0 * h {
-        return Some(format!(
-            "relative permeability B/(μ0 H) = {} is above the supported {MAX_MU_R:e}",
-            short(b / (MU0 * h))
-        ));
-    }
-    let (j, [hp, bp]) = prev?;
-    if h <= hp {
-        return Some(format!(
-            "H must increase strictly (point {}: {} A/m)",
-            j + 1,
-            short(hp)
-        ));
-    }
-    if b <= bp {
-        return Some(format!(
-            "B must increase strictly (point {}: {} T)",
-            j + 1,
-            short(bp)
-        ));
-    }
-    if b - bp > MAX_SEGMENT_MU_R * MU0 * (h - hp) {
-        let mu_diff = (b - bp) / (MU0 * (h - hp));
-        return Some(format!(
-            "ΔB/(μ0 ΔH) = {} from point {} is above the supported {MAX_SEGMENT_MU_R:e}",
-            short(mu_diff),
-            j + 1
-        ));
-    }
-    if b - bp < MU0 * (h - hp) * (1.0 - VACUUM_SLACK) {
-        let mu_diff = (b - bp) / (MU0 * (h - hp));
-        return Some(format!(
-            "ΔB/(μ0 ΔH) = {} < 1 from point {}",
-            short(mu_diff),
-            j + 1
-        ));
-    }
-    None
 }
 
 /// Slope at the end knot of the parabola through the three end points (Steffen 1990, his

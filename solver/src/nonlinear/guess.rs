@@ -81,7 +81,7 @@ impl Model {
     }
 
     /// The first-order model on this second-order model's corners (same regions, conditions
-    /// and open boundary).
+    /// and exact exterior).
     pub(super) fn corner_model(&self) -> Result<Model, SolverError> {
         let nv = 1 + self
             .mesh
@@ -107,10 +107,10 @@ impl Model {
                 .filter(|&(n, _)| (n as usize) < nv)
                 .collect(),
             background_b: self.background,
-            open_boundary: self
-                .open_boundary
+            exact_exterior: self
+                .exact_exterior
                 .as_ref()
-                .map(|ob| crate::exterior::OpenBoundary {
+                .map(|ob| crate::exterior::ExactExterior {
                     nodes: ob
                         .nodes
                         .iter()

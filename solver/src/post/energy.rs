@@ -4,7 +4,7 @@ use crate::field::Solution;
 use crate::solve::Model;
 
 /// Field energy W = ∫ (∫_0^B H·dB) dV in J; for linear materials ½ ∫ ν |B|² dV. With the
-/// exact open boundary the energy of the reaction field outside the meshed sphere is added.
+/// exact exterior the energy of the reaction field outside the meshed sphere is added.
 pub fn energy(model: &Model, sol: &Solution) -> f64 {
     let mut w = 0.0;
     for (e, g) in model.geometry().iter().enumerate() {

@@ -23,7 +23,7 @@ use axicore_solver::Material;
 pub struct BuiltinMaterial {
     /// Name used in case files.
     pub name: &'static str,
-    /// Saturation polarisation Js = μ0 Ms in T (0 for air).
+    /// Saturation polarisation Js = μ0 Ms in T.
     pub saturation_t: f64,
     /// Initial relative permeability.
     pub mu_initial: f64,
@@ -34,13 +34,8 @@ pub struct BuiltinMaterial {
 }
 
 impl BuiltinMaterial {
-    /// The solver's material: the knee law (air is linear).
+    /// The solver's material: the knee law.
     pub fn material(&self) -> Material {
-        if self.saturation_t == 0.0 {
-            return Material::Linear {
-                mu_r: self.mu_initial,
-            };
-        }
         Material::Saturable(Arc::new(SaturationLaw::Knee {
             js: self.saturation_t,
             mu_i: self.mu_initial,
@@ -49,14 +44,7 @@ impl BuiltinMaterial {
     }
 }
 
-const TABLE: [BuiltinMaterial; 8] = [
-    BuiltinMaterial {
-        name: "air",
-        saturation_t: 0.0,
-        mu_initial: 1.0,
-        mu_max: 1.0,
-        note: "vacuum/air, linear",
-    },
+const TABLE: [BuiltinMaterial; 7] = [
     BuiltinMaterial {
         name: "pure-iron",
         saturation_t: 2.15,
@@ -118,6 +106,23 @@ pub fn find(name: &str) -> Option<&'static BuiltinMaterial> {
     TABLE.iter().find(|m| m.name == name)
 }
 
+/// Why `name` is not a built-in material, with the nearest name and the list, as one phrase.
+/// `air` gets its own answer: it was listed once, but the space around the sources needs no
+/// name, and a core of μr = 1 is `mu_r = 1`.
+pub fn unknown_material(name: &str) -> String {
+    if name.eq_ignore_ascii_case("air") || name.eq_ignore_ascii_case("vacuum") {
+        return format!(
+            "'{name}' is not a core material: everything outside the core and windings is already air; leave out [core] for a winding in air, or write mu_r = 1"
+        );
+    }
+    let names: Vec<&str> = TABLE.iter().map(|m| m.name).collect();
+    format!(
+        "unknown material '{name}'{}; built-in: {}",
+        crate::suggest::hint(name, &names),
+        names.join(", ")
+    )
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -128,10 +133,25 @@ mod tests {
             let mat = m.material();
             mat.validate().unwrap();
             assert!((mat.initial_mu_r() - m.mu_initial).abs() < 1e-9 * m.mu_initial);
-            if m.saturation_t > 0.0 {
-                assert_eq!(mat.saturation_b(), Some(m.saturation_t));
-                assert!(m.mu_max >= m.mu_initial);
-            }
+            assert_eq!(mat.saturation_b(), Some(m.saturation_t));
+            assert!(m.mu_max >= m.mu_initial);
         }
+    }
+
+    #[test]
+    fn a_misspelt_material_gets_the_nearest_name() {
+        let m = unknown_material("nikel-iron-80");
+        assert!(m.contains("did you mean 'nickel-iron-80'"), "{m}");
+        assert!(m.contains("built-in: pure-iron"), "{m}");
+    }
+
+    #[test]
+    fn air_is_not_a_listed_material_and_its_message_says_what_to_write() {
+        assert!(find("air").is_none());
+        let m = unknown_material("air");
+        assert!(
+            m.contains("leave out [core]") && m.contains("mu_r = 1"),
+            "{m}"
+        );
     }
 }

@@ -4,14 +4,18 @@
 //! missing keys, bad units and impossible geometry are reported as one line naming the file,
 //! the key and the fault.
 
+mod advice;
+mod core_material;
 mod materials;
 mod parse;
 mod section;
 mod validate;
 
-pub use materials::{builtin_materials, find as find_material, BuiltinMaterial};
+pub use materials::{builtin_materials, find as find_material, unknown_material, BuiltinMaterial};
 pub use parse::{parse_case, read_case_file};
-pub use validate::{AUTO_AIR_FACTOR, BALL_FACTOR, MIN_AIR_FACTOR};
+pub use validate::{
+    AUTO_EXACT_RADIUS_FACTOR, AUTO_FIXED_RADIUS_FACTOR, BALL_FACTOR, MIN_SURROUNDINGS_FACTOR,
+};
 
 use std::fmt;
 
@@ -26,14 +30,49 @@ pub struct Case {
     pub windings: Vec<Winding>,
     /// Uniform background flux density along +z, in T.
     pub background_b: f64,
-    /// Radius of the meshed air region (outer sphere), in m; None = automatic.
-    pub air_radius: Option<f64>,
-    /// Exact open boundary on the air sphere (true) or A = B0 r/2 held there (false).
-    pub open_boundary: bool,
+    /// Radius of the meshed surroundings (the ball around the sources), in m; None = automatic.
+    pub surroundings_radius: Option<f64>,
+    /// How the meshed surroundings end: exactly joined to the unbounded space, or A fixed.
+    pub edge: Edge,
+    /// Every length the file gave, with its key, in the order read (for messages that must
+    /// point at a likely unit slip; see [`Case::explain_too_many_nodes`]).
+    pub given_lengths: Vec<GivenLength>,
     /// Mesh controls.
     pub mesh: MeshControls,
     /// Stopping rules of the nonlinear iteration (used only with saturating materials).
     pub newton: axicore_solver::NewtonSettings,
+}
+
+/// How the meshed surroundings end (`surroundings.edge`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Edge {
+    /// `exact`: the unbounded space beyond the ball is joined exactly (its multipole energy
+    /// is added on the ball's sphere), so results do not depend on where the mesh ends.
+    Exact,
+    /// `fixed`: the potential is held at the background's B0 r/2 on the ball's sphere (the
+    /// reaction field is cut off there; the moment carries a bias of order (source/ball)³).
+    Fixed,
+}
+
+impl Edge {
+    /// Name used in the case file.
+    pub fn keyword(self) -> &'static str {
+        match self {
+            Edge::Exact => "exact",
+            Edge::Fixed => "fixed",
+        }
+    }
+}
+
+/// A length as the case file gave it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct GivenLength {
+    /// Dotted key path, e.g. `winding[1].length`.
+    pub key: String,
+    /// Value in m.
+    pub metres: f64,
+    /// True when written without a unit (a plain number, read as metres).
+    pub plain: bool,
 }
 
 /// The core: shape, axial position of its centre and material.
@@ -182,8 +221,8 @@ pub struct MeshControls {
     pub far_size: Option<f64>,
     /// Size growth per unit distance from a refined feature.
     pub grading: Option<f64>,
-    /// Minimum triangle angle in degrees.
-    pub min_angle_deg: f64,
+    /// No triangle angle below this, in degrees (`mesh.angle_floor`).
+    pub angle_floor_deg: f64,
     /// Relative chord sagitta allowed on curved boundaries.
     pub arc_tolerance: Option<f64>,
     /// Node cap.
@@ -221,7 +260,7 @@ impl Default for MeshControls {
             corner_size: None,
             far_size: None,
             grading: None,
-            min_angle_deg: 25.0,
+            angle_floor_deg: 25.0,
             arc_tolerance: None,
             max_nodes: 2_000_000,
             order: 2,

@@ -1,17 +1,17 @@
 //! Reading a case from TOML text with strict key checking and unit-aware values.
 
+use std::cell::RefCell;
 use std::path::Path;
-use std::sync::Arc;
 
-use axicore_solver::material::{BhTable, Brauer, SaturationLaw, MAX_MU_R, MIN_SATURATION};
-use axicore_solver::{Material, NewtonSettings};
+use axicore_mesher::MAX_ANGLE_FLOOR_DEG;
+use axicore_solver::NewtonSettings;
 
 use toml::{Table, Value};
 
-use super::materials;
+use super::core_material::parse_core_material;
 use super::section::{hint, Section};
 use super::validate::validate;
-use super::{Case, CaseError, Core, CoreShape, MeshControls, Winding};
+use super::{Case, CaseError, Core, CoreShape, Edge, MeshControls, Winding};
 use crate::units::Dimension;
 
 /// Reads and parses a case file.
@@ -29,7 +29,7 @@ const MAX_INPUT_BYTES: u64 = 16 << 20;
 
 /// The text of a regular file of at most [`MAX_INPUT_BYTES`]. Why the checks: a named pipe
 /// blocked the read for ever and `/dev/zero` filled the memory until the process was killed.
-fn read_text(path: &Path) -> Result<String, String> {
+pub(super) fn read_text(path: &Path) -> Result<String, String> {
     use std::io::Read;
     let meta = std::fs::metadata(path).map_err(|e| e.to_string())?;
     if !meta.is_file() {
@@ -45,24 +45,35 @@ fn read_text(path: &Path) -> Result<String, String> {
     String::from_utf8(bytes).map_err(|_| "stream did not contain valid UTF-8".into())
 }
 
+/// What to write when the case file holds nothing to read.
+const EMPTY_HINT: &str =
+    "the case file is empty: start from the built-in example with `axicore example > my.toml`";
+
 /// Parses case text; `file` names it in error messages.
 pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
-    let root: Table = text.parse().map_err(|e: toml::de::Error| {
-        let (line, column) = e.span().map(|s| line_col(text, s.start)).unwrap_or((1, 1));
-        CaseError::Syntax {
+    let root: Table = text
+        .parse()
+        .map_err(|e: toml::de::Error| syntax_error(text, file, &e))?;
+    if root.is_empty() {
+        return Err(CaseError::Key {
             file: file.to_string(),
-            line,
-            column,
-            reason: e.message().replace('\n', " "),
-        }
-    })?;
-    let top = Section::new(file, String::new(), &root);
+            key: "(file)".into(),
+            fault: EMPTY_HINT.into(),
+        });
+    }
+    let lengths = RefCell::new(Vec::new());
+    let top = Section::root(file, &root, &lengths);
+    top.renamed(&[(
+        "air",
+        "surroundings",
+        " (radius stays radius; boundary is now edge: open → exact, truncated → fixed)",
+    )])?;
     top.only(&[
         "title",
         "core",
         "winding",
         "background",
-        "air",
+        "surroundings",
         "mesh",
         "solver",
     ])?;
@@ -82,13 +93,12 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
                 let Value::Table(t) = item else {
                     return Err(top.fault(&key, "must be a table ([[winding]])"));
                 };
-                windings.push(parse_winding(&Section::new(file, key, t), i)?);
+                windings.push(parse_winding(&top.child(key, t), i)?);
             }
         }
-        Some(Value::Table(t)) => windings.push(parse_winding(
-            &Section::new(file, "winding[1]".into(), t),
-            0,
-        )?),
+        Some(Value::Table(t)) => {
+            windings.push(parse_winding(&top.child("winding[1]".into(), t), 0)?)
+        }
         Some(_) => return Err(top.fault("winding", "must be a [[winding]] table")),
     }
     let background_b = match top.table("background")? {
@@ -99,25 +109,9 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         }
         None => 0.0,
     };
-    let (air_radius, open_boundary) = match top.table("air")? {
-        Some(s) => {
-            s.only(&["radius", "boundary"])?;
-            let open = match s.string("boundary")?.as_deref() {
-                None | Some("open") => true,
-                Some("truncated") => false,
-                Some(other) => {
-                    return Err(s.fault(
-                        "boundary",
-                        &format!(
-                            "unknown boundary '{other}'{} (open or truncated)",
-                            hint(other, &["open", "truncated"])
-                        ),
-                    ))
-                }
-            };
-            (s.positive("radius", Dimension::Length)?, open)
-        }
-        None => (None, true),
+    let (surroundings_radius, edge) = match top.table("surroundings")? {
+        Some(s) => parse_surroundings(&s)?,
+        None => (None, Edge::Exact),
     };
     let mesh = match top.table("mesh")? {
         Some(s) => parse_mesh(&s)?,
@@ -132,13 +126,56 @@ pub fn parse_case(text: &str, file: &str) -> Result<Case, CaseError> {
         core,
         windings,
         background_b,
-        air_radius,
-        open_boundary,
+        surroundings_radius,
+        edge,
+        given_lengths: lengths.into_inner(),
         mesh,
         newton,
     };
     validate(&case, file)?;
     Ok(case)
+}
+
+/// A TOML syntax fault at the line and column where the parser found it (for a fault inside
+/// a nested or inline table too: the span is the offending value's, not the table's).
+fn syntax_error(text: &str, file: &str, e: &toml::de::Error) -> CaseError {
+    // toml 0.9 reports a dotted key or table header nested beyond its limit without a span
+    // (it said line 1, column 1): the deepest dotted key is then the place.
+    let (line, column) = e
+        .span()
+        .map(|s| line_col(text, s.start))
+        .or_else(|| deepest_key_line(text))
+        .unwrap_or((1, 1));
+    CaseError::Syntax {
+        file: file.to_string(),
+        line,
+        column,
+        reason: e.message().trim().replace('\n', " "),
+    }
+}
+
+/// `[surroundings]`: the radius of the meshed ball and how its edge is closed.
+fn parse_surroundings(s: &Section) -> Result<(Option<f64>, Edge), CaseError> {
+    s.renamed(&[("boundary", "edge", " (open → exact, truncated → fixed)")])?;
+    s.only(&["radius", "edge"])?;
+    let edge = match s.string("edge")?.as_deref() {
+        None | Some("exact") => Edge::Exact,
+        Some("fixed") => Edge::Fixed,
+        Some(old @ ("open" | "truncated")) => {
+            let new = if old == "open" { "exact" } else { "fixed" };
+            return Err(s.fault("edge", &format!("'{old}' is now called '{new}'")));
+        }
+        Some(other) => {
+            return Err(s.fault(
+                "edge",
+                &format!(
+                    "unknown edge '{other}'{} (exact or fixed)",
+                    hint(other, &["exact", "fixed"])
+                ),
+            ))
+        }
+    };
+    Ok((s.positive("radius", Dimension::Length)?, edge))
 }
 
 /// Supported length/diameter of a core.
@@ -224,206 +261,6 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
     })
 }
 
-/// Exactly one of: `material` (built-in name), `mu_r` (linear), `[core.bh_curve]` (table),
-/// `[core.law]` (analytic law).
-fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
-    let given: Vec<&str> = ["material", "mu_r", "bh_curve", "law"]
-        .into_iter()
-        .filter(|k| s.table.contains_key(*k))
-        .collect();
-    match given.as_slice() {
-        [] => Err(s.fault(
-            "material",
-            "missing (a built-in name, mu_r = number, [core.bh_curve] or [core.law])",
-        )),
-        [_, second, ..] => Err(s.fault(
-            second,
-            &format!(
-                "give only one of material, mu_r, bh_curve, law (found {})",
-                given.join(" and ")
-            ),
-        )),
-        ["mu_r"] => {
-            let mu_r = s.quantity("mu_r", Dimension::Dimensionless)?.unwrap_or(1.0);
-            check_mu_r(s, "mu_r", mu_r)?;
-            if mu_r < 1.0 {
-                return Err(s.fault(
-                    "mu_r",
-                    &format!("relative permeability {mu_r} is below 1 (not a ferromagnetic or paramagnetic core)"),
-                ));
-            }
-            Ok((format!("linear, μr = {mu_r}"), Material::Linear { mu_r }))
-        }
-        ["material"] => {
-            let name = s.string("material")?.unwrap_or_default();
-            match materials::find(&name) {
-                Some(m) => Ok((name, m.material())),
-                None => {
-                    let names: Vec<&str> = materials::builtin_materials()
-                        .iter()
-                        .map(|m| m.name)
-                        .collect();
-                    Err(s.fault(
-                        "material",
-                        &format!(
-                            "unknown material '{name}'{}; built-in: {}",
-                            hint(&name, &names),
-                            names.join(", ")
-                        ),
-                    ))
-                }
-            }
-        }
-        ["bh_curve"] => {
-            let t = s
-                .table("bh_curve")?
-                .ok_or_else(|| s.fault("bh_curve", "must be a table"))?;
-            let points = bh_points(&t)?;
-            let key = if t.table.contains_key("file") {
-                "file"
-            } else {
-                "b"
-            };
-            let table = BhTable::new(&points).map_err(|e| t.fault(key, &e.to_string()))?;
-            Ok((
-                "B–H table".into(),
-                Material::Saturable(Arc::new(SaturationLaw::Table(table))),
-            ))
-        }
-        _ => {
-            let t = s
-                .table("law")?
-                .ok_or_else(|| s.fault("law", "must be a table"))?;
-            let law = parse_law(&t)?;
-            let mat = Material::Saturable(Arc::new(law));
-            mat.validate()
-                .map_err(|e| t.fault("kind", &e.to_string()))?;
-            Ok((t.string("kind")?.unwrap_or_default(), mat))
-        }
-    }
-}
-
-/// Points [H, B] of a `[core.bh_curve]`: inline arrays `h`, `b` or a CSV `file`.
-fn bh_points(t: &Section) -> Result<Vec<[f64; 2]>, CaseError> {
-    t.only(&["h", "b", "file"])?;
-    if let Some(file) = t.string("file")? {
-        if t.table.contains_key("h") || t.table.contains_key("b") {
-            return Err(t.fault("file", "give either file or h and b, not both"));
-        }
-        let base = Path::new(t.file).parent().unwrap_or(Path::new("."));
-        let path = base.join(&file);
-        let text = read_text(&path)
-            .map_err(|e| t.fault("file", &format!("cannot read {}: {e}", path.display())))?;
-        return crate::bh_csv::parse(&text)
-            .map_err(|e| t.fault("file", &format!("{}: {e}", path.display())));
-    }
-    let h = t.quantity_list("h", Dimension::FieldStrength)?;
-    let b = t.quantity_list("b", Dimension::FluxDensity)?;
-    if h.len() != b.len() {
-        return Err(t.fault(
-            "b",
-            &format!("has {} values but h has {}", b.len(), h.len()),
-        ));
-    }
-    Ok(h.into_iter().zip(b).map(|(h, b)| [h, b]).collect())
-}
-
-/// Rejects a relative permeability above the materials' bound, naming the key (the law's own
-/// check would name only the law).
-fn check_mu_r(s: &Section, key: &str, mu: f64) -> Result<(), CaseError> {
-    if mu > MAX_MU_R {
-        return Err(s.fault(key, &format!("{mu:e} is above the supported {MAX_MU_R:e}")));
-    }
-    Ok(())
-}
-
-/// An analytic law from `[core.law]`.
-fn parse_law(t: &Section) -> Result<SaturationLaw, CaseError> {
-    let kind = t.string("kind")?.ok_or_else(|| {
-        t.fault(
-            "kind",
-            "missing (frohlich-kennelly, arctan, knee or brauer)",
-        )
-    })?;
-    let kinds = ["frohlich-kennelly", "arctan", "knee", "brauer"];
-    let required = |key: &str, dim| t.quantity(key, dim)?.ok_or_else(|| t.fault(key, "missing"));
-    // Each parameter is checked here so that a fault names its own key.
-    let saturation = || -> Result<f64, CaseError> {
-        let js = required("saturation", Dimension::FluxDensity)?;
-        if js <= 0.0 {
-            return Err(t.fault("saturation", &format!("{js} T must be positive")));
-        }
-        // (The law's own check, named here.)
-        if js < MIN_SATURATION {
-            return Err(t.fault(
-                "saturation",
-                &format!("{js:e} T is below the supported {MIN_SATURATION} T"),
-            ));
-        }
-        Ok(js)
-    };
-    let initial = || -> Result<f64, CaseError> {
-        let mu = required("initial_mu_r", Dimension::Dimensionless)?;
-        if mu <= 1.0 {
-            return Err(t.fault("initial_mu_r", &format!("{mu} must be above 1")));
-        }
-        check_mu_r(t, "initial_mu_r", mu)?;
-        Ok(mu)
-    };
-    Ok(match kind.as_str() {
-        "frohlich-kennelly" | "arctan" => {
-            t.only(&["kind", "saturation", "initial_mu_r"])?;
-            let js = saturation()?;
-            let mu_ri = initial()?;
-            if kind == "arctan" {
-                SaturationLaw::Arctan { js, mu_ri }
-            } else {
-                SaturationLaw::FrohlichKennelly { js, mu_ri }
-            }
-        }
-        "knee" => {
-            t.only(&["kind", "saturation", "initial_mu_r", "max_mu_r"])?;
-            let js = saturation()?;
-            let mu_i = initial()?;
-            let mu_max = required("max_mu_r", Dimension::Dimensionless)?;
-            check_mu_r(t, "max_mu_r", mu_max)?;
-            if mu_max < mu_i {
-                return Err(t.fault(
-                    "max_mu_r",
-                    &format!("{mu_max} must not be below initial_mu_r = {mu_i}"),
-                ));
-            }
-            SaturationLaw::Knee { js, mu_i, mu_max }
-        }
-        "brauer" => {
-            t.only(&["kind", "k1", "k2", "k3"])?;
-            let k1 = required("k1", Dimension::Dimensionless)?;
-            let k2 = required("k2", Dimension::Dimensionless)?;
-            let k3 = required("k3", Dimension::Dimensionless)?;
-            for (key, v) in [("k1", k1), ("k2", k2)] {
-                if v <= 0.0 {
-                    return Err(t.fault(key, &format!("{v} must be positive")));
-                }
-            }
-            if k3 <= 0.0 {
-                return Err(t.fault("k3", &format!("{k3} m/H must be positive")));
-            }
-            let law = Brauer::new(k1, k2, k3).map_err(|e| t.fault("k3", &e.to_string()))?;
-            SaturationLaw::Brauer(law)
-        }
-        other => {
-            return Err(t.fault(
-                "kind",
-                &format!(
-                    "unknown law '{other}'{} ({})",
-                    hint(other, &kinds),
-                    kinds.join(", ")
-                ),
-            ))
-        }
-    })
-}
-
 fn parse_winding(s: &Section, index: usize) -> Result<Winding, CaseError> {
     s.only(&[
         "name",
@@ -494,6 +331,7 @@ fn parse_solver(s: &Section) -> Result<NewtonSettings, CaseError> {
 }
 
 fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
+    s.renamed(&[("min_angle", "angle_floor", "")])?;
     s.only(&[
         "fineness",
         "core_size",
@@ -501,7 +339,7 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         "corner_size",
         "far_size",
         "grading",
-        "min_angle",
+        "angle_floor",
         "arc_tolerance",
         "max_nodes",
         "order",
@@ -512,13 +350,13 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         Some(o) if o == 1.0 || o == 2.0 => o as usize,
         Some(o) => return Err(s.fault("order", &format!("{o} must be 1 or 2"))),
     };
-    let min_angle_deg = s
-        .positive("min_angle", Dimension::Dimensionless)?
-        .unwrap_or(d.min_angle_deg);
-    if min_angle_deg > 30.0 {
+    let angle_floor_deg = s
+        .positive("angle_floor", Dimension::Dimensionless)?
+        .unwrap_or(d.angle_floor_deg);
+    if angle_floor_deg > MAX_ANGLE_FLOOR_DEG {
         return Err(s.fault(
-            "min_angle",
-            "above 30 degrees refinement may not terminate; use ≤ 30",
+            "angle_floor",
+            &format!("above {MAX_ANGLE_FLOOR_DEG} degrees refinement may not terminate; use ≤ {MAX_ANGLE_FLOOR_DEG}"),
         ));
     }
     let arc_tolerance = s.positive("arc_tolerance", Dimension::Dimensionless)?;
@@ -552,11 +390,39 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         corner_size: s.positive("corner_size", Dimension::Length)?,
         far_size: s.positive("far_size", Dimension::Length)?,
         grading,
-        min_angle_deg,
+        angle_floor_deg,
         arc_tolerance,
         max_nodes,
         order,
     })
+}
+
+/// Line and column (1-based) of the key or table header with the most dotted parts, if any
+/// has more than one.
+fn deepest_key_line(text: &str) -> Option<(usize, usize)> {
+    let mut best: Option<(usize, usize, usize)> = None;
+    for (i, raw) in text.lines().enumerate() {
+        let line = raw.trim_start();
+        let key = if line.starts_with('[') {
+            line.trim_start_matches('[').split(']').next().unwrap_or("")
+        } else {
+            line.split('=').next().unwrap_or("")
+        };
+        let mut quoted = None;
+        let mut dots = 0;
+        for c in key.chars() {
+            match (quoted, c) {
+                (None, '"' | '\'') => quoted = Some(c),
+                (Some(q), c) if c == q => quoted = None,
+                (None, '.') => dots += 1,
+                _ => {}
+            }
+        }
+        if dots > 0 && best.is_none_or(|(d, _, _)| dots > d) {
+            best = Some((dots, i + 1, raw.len() - line.len() + 1));
+        }
+    }
+    best.map(|(_, line, column)| (line, column))
 }
 
 fn line_col(text: &str, offset: usize) -> (usize, usize) {
@@ -564,4 +430,43 @@ fn line_col(text: &str, offset: usize) -> (usize, usize) {
     let line = before.matches('\n').count() + 1;
     let column = before.len() - before.rfind('\n').map_or(0, |i| i + 1) + 1;
     (line, column)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn syntax_line(text: &str) -> (usize, String) {
+        match parse_case(text, "c.toml").unwrap_err() {
+            CaseError::Syntax { line, reason, .. } => (line, reason),
+            other => panic!("not a syntax fault: {other}"),
+        }
+    }
+
+    #[test]
+    fn a_fault_in_a_nested_or_inline_table_is_reported_at_its_line() {
+        let law = "title = \"t\"\n[core]\nshape = \"rod\"\n[core.law]\nkind = \"knee\"\nsaturation = 1.5 T\n";
+        assert_eq!(syntax_line(law).0, 6);
+        let curve = "[core]\nshape = \"rod\"\n\n[core.bh_curve]\nh = [0, 100]\nb = [0, 1.0 1.5]\n";
+        assert_eq!(syntax_line(curve).0, 6);
+        let inline = "[core]\nshape = \"rod\"\nlaw = { kind = \"knee\", saturation = 1.5 T }\n";
+        assert_eq!(syntax_line(inline).0, 3);
+    }
+
+    #[test]
+    fn a_table_nested_beyond_the_parser_limit_is_reported_at_its_header() {
+        let deep = format!("title = \"t\"\n\n[{}]\nb = 1\n", vec!["a"; 300].join("."));
+        let (line, reason) = syntax_line(&deep);
+        assert_eq!(line, 3, "{reason}");
+        let dotted = format!("title = \"t\"\n{} = 1\n", vec!["a"; 300].join("."));
+        assert_eq!(syntax_line(&dotted).0, 2);
+    }
+
+    #[test]
+    fn an_empty_file_suggests_starting_from_the_example() {
+        for text in ["", "\n\n", "# only a comment\n"] {
+            let e = parse_case(text, "c.toml").unwrap_err().to_string();
+            assert!(e.contains("axicore example > my.toml"), "{e}");
+        }
+    }
 }

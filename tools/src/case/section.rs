@@ -1,21 +1,47 @@
 //! The TOML walker of the case parser: a table with its key path, strict key checks and
 //! unit-aware values, so every fault names the file, the key and what is wrong.
 
+use std::cell::RefCell;
+
 use toml::{Table, Value};
 
-use super::CaseError;
+use super::{CaseError, GivenLength};
 use crate::units::{self, Dimension};
+
+pub(crate) use crate::suggest::hint;
 
 /// A table being read, with its key path for messages.
 pub(super) struct Section<'a> {
     pub(super) file: &'a str,
     path: String,
     pub(super) table: &'a Table,
+    /// Every length read so far, shared by all sections of one file.
+    lengths: &'a RefCell<Vec<GivenLength>>,
 }
 
 impl<'a> Section<'a> {
-    pub(super) fn new(file: &'a str, path: String, table: &'a Table) -> Self {
-        Self { file, path, table }
+    /// The top-level table of `file`; lengths read through it and its children go to `lengths`.
+    pub(super) fn root(
+        file: &'a str,
+        table: &'a Table,
+        lengths: &'a RefCell<Vec<GivenLength>>,
+    ) -> Self {
+        Self {
+            file,
+            path: String::new(),
+            table,
+            lengths,
+        }
+    }
+
+    /// A sub-table read under the key path `path`.
+    pub(super) fn child(&self, path: String, table: &'a Table) -> Section<'a> {
+        Section {
+            file: self.file,
+            path,
+            table,
+            lengths: self.lengths,
+        }
     }
 
     pub(super) fn key_path(&self, key: &str) -> String {
@@ -34,6 +60,17 @@ impl<'a> Section<'a> {
         }
     }
 
+    /// Refuses keys of the earlier schema, naming what replaced them: (old key, new key, note).
+    pub(super) fn renamed(&self, renames: &[(&str, &str, &str)]) -> Result<(), CaseError> {
+        for &(old, new, note) in renames {
+            if self.table.contains_key(old) {
+                let fault = format!("renamed to {}{note}", self.key_path(new));
+                return Err(self.fault(old, &fault));
+            }
+        }
+        Ok(())
+    }
+
     /// Rejects keys not in `known`, suggesting the nearest known key.
     pub(super) fn only(&self, known: &[&str]) -> Result<(), CaseError> {
         for k in self.table.keys() {
@@ -47,7 +84,7 @@ impl<'a> Section<'a> {
     pub(super) fn table(&self, key: &str) -> Result<Option<Section<'a>>, CaseError> {
         match self.table.get(key) {
             None => Ok(None),
-            Some(Value::Table(t)) => Ok(Some(Section::new(self.file, self.key_path(key), t))),
+            Some(Value::Table(t)) => Ok(Some(self.child(self.key_path(key), t))),
             Some(_) => Err(self.fault(key, "must be a table")),
         }
     }
@@ -60,19 +97,30 @@ impl<'a> Section<'a> {
         }
     }
 
-    /// A number (SI) or a string with a unit of dimension `dim`.
+    /// A number (SI) or a string with a unit of dimension `dim`. Lengths are recorded with
+    /// whether they carried a unit.
     pub(super) fn quantity(&self, key: &str, dim: Dimension) -> Result<Option<f64>, CaseError> {
-        let v = match self.table.get(key) {
+        let (v, plain) = match self.table.get(key) {
             None => return Ok(None),
-            Some(Value::Integer(i)) => *i as f64,
-            Some(Value::Float(f)) => *f,
-            Some(Value::String(s)) => units::parse(s, dim).map_err(|e| self.fault(key, &e))?,
+            Some(Value::Integer(i)) => (*i as f64, true),
+            Some(Value::Float(f)) => (*f, true),
+            Some(Value::String(s)) => (
+                units::parse(s, dim).map_err(|e| self.fault(key, &e))?,
+                units::parse(s, Dimension::Dimensionless).is_ok(),
+            ),
             Some(_) => return Err(self.fault(key, &format!("must be {dim}"))),
         };
         if !v.is_finite() {
             return Err(self.fault(key, "must be finite"));
         }
         units::check_magnitude(v, dim).map_err(|e| self.fault(key, &e))?;
+        if dim == Dimension::Length {
+            self.lengths.borrow_mut().push(GivenLength {
+                key: self.key_path(key),
+                metres: v,
+                plain,
+            });
+        }
         Ok(Some(v))
     }
 
@@ -119,30 +167,4 @@ impl<'a> Section<'a> {
         self.positive(key, dim)?
             .ok_or_else(|| self.fault(key, &format!("missing ({dim})")))
     }
-}
-
-/// " (did you mean 'x'?)" when a known word is within a small edit distance.
-pub(crate) fn hint(word: &str, known: &[&str]) -> String {
-    known
-        .iter()
-        .map(|k| (edit_distance(word, k), *k))
-        .filter(|&(d, k)| d <= 2.max(k.len() / 3))
-        .min()
-        .map(|(_, k)| format!(" (did you mean '{k}'?)"))
-        .unwrap_or_default()
-}
-
-fn edit_distance(a: &str, b: &str) -> usize {
-    let a: Vec<char> = a.chars().collect();
-    let b: Vec<char> = b.chars().collect();
-    let mut prev: Vec<usize> = (0..=b.len()).collect();
-    for i in 1..=a.len() {
-        let mut cur = vec![i; b.len() + 1];
-        for j in 1..=b.len() {
-            let sub = prev[j - 1] + usize::from(a[i - 1] != b[j - 1]);
-            cur[j] = sub.min(prev[j] + 1).min(cur[j - 1] + 1);
-        }
-        prev = cur;
-    }
-    prev[b.len()]
 }

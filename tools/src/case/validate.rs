@@ -1,18 +1,18 @@
-//! Geometric sanity of a parsed case: sizes, overlaps, and fit inside the air region.
+//! Geometric sanity of a parsed case: sizes, overlaps, and fit inside the meshed surroundings.
 
-use super::{Case, CaseError, CoreShape, Winding};
+use super::{Case, CaseError, CoreShape, Edge, Winding};
 
-/// With a truncated boundary the automatic air radius is this multiple of the farthest source
-/// point. The truncation bias of the dipole scales like (source radius / air radius)³ (see the
-/// README), ~1e-4 here.
-pub const AUTO_AIR_FACTOR: f64 = 20.0;
-/// With the exact open boundary the automatic air radius is this multiple: only the ball of
+/// With a fixed edge the automatic surroundings radius is this multiple of the farthest source
+/// point. The cut-off bias of the dipole scales like (source radius / surroundings radius)³
+/// (see the README), ~1e-4 here.
+pub const AUTO_FIXED_RADIUS_FACTOR: f64 = 20.0;
+/// With the exact edge the automatic surroundings radius is this multiple: only the ball of
 /// the field-route check (1.5×) and room to grade the mesh are needed.
-pub const AUTO_OPEN_AIR_FACTOR: f64 = 3.0;
+pub const AUTO_EXACT_RADIUS_FACTOR: f64 = 3.0;
 /// The ball used for the field-route dipole check has this multiple of the source radius.
 pub const BALL_FACTOR: f64 = 1.5;
-/// The air radius must be at least this multiple of the source radius.
-pub const MIN_AIR_FACTOR: f64 = 2.0;
+/// The surroundings radius must be at least this multiple of the source radius.
+pub const MIN_SURROUNDINGS_FACTOR: f64 = 2.0;
 
 impl Case {
     /// Distance from the origin of the farthest point of any core or winding, in m.
@@ -37,14 +37,14 @@ impl Case {
         s
     }
 
-    /// Radius of the meshed air sphere in m (given, or automatic).
-    pub fn effective_air_radius(&self) -> f64 {
-        let factor = if self.open_boundary {
-            AUTO_OPEN_AIR_FACTOR
-        } else {
-            AUTO_AIR_FACTOR
+    /// Radius of the meshed surroundings in m (given, or automatic).
+    pub fn effective_surroundings_radius(&self) -> f64 {
+        let factor = match self.edge {
+            Edge::Exact => AUTO_EXACT_RADIUS_FACTOR,
+            Edge::Fixed => AUTO_FIXED_RADIUS_FACTOR,
         };
-        self.air_radius.unwrap_or(factor * self.source_radius())
+        self.surroundings_radius
+            .unwrap_or(factor * self.source_radius())
     }
 }
 
@@ -115,15 +115,15 @@ pub(super) fn validate(case: &Case, file: &str) -> Result<(), CaseError> {
         }
     }
     let src = case.source_radius();
-    if let Some(ro) = case.air_radius {
-        if ro < MIN_AIR_FACTOR * src {
+    if let Some(ro) = case.surroundings_radius {
+        if ro < MIN_SURROUNDINGS_FACTOR * src {
             return Err(fault(
-                "air.radius".into(),
+                "surroundings.radius".into(),
                 format!(
-                    "{} mm is too small: the core and windings reach {} mm from the origin and the air region must be at least {}× that",
+                    "{} mm is too small: the core and windings reach {} mm from the origin and the surroundings must reach at least {}× that",
                     ro * 1e3,
                     src * 1e3,
-                    MIN_AIR_FACTOR
+                    MIN_SURROUNDINGS_FACTOR
                 ),
             ));
         }

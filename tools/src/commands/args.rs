@@ -89,3 +89,19 @@ pub fn outputs<'a>(asked: &[(&'a str, &'a Option<PathBuf>)]) -> Vec<(&'a str, &'
         .filter_map(|(o, p)| p.as_deref().map(|p| (*o, p)))
         .collect()
 }
+
+/// Checks the outputs before any work: each path's extension fits its option (a legacy
+/// `.vtk` name for a `.vtu` map is refused with the name to use), and the paths themselves
+/// are safe to write ([`crate::output::check_paths`]).
+pub fn check_outputs(outputs: &[(&str, &Path)], input: Option<&Path>) -> Result<(), Failure> {
+    for &(option, path) in outputs {
+        let expected: &[&str] = match option {
+            "--vtk" => &["vtu"],
+            "--csv" => &["csv"],
+            "--picture" => &["png", "svg"],
+            _ => &["svg"],
+        };
+        crate::output_names::check_extension(option, path, expected).map_err(Failure::input)?;
+    }
+    crate::output::check_paths(outputs, input).map_err(Failure::input)
+}

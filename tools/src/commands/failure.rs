@@ -3,6 +3,7 @@
 use axicore_mesher::MeshError;
 use axicore_solver::SolverError;
 
+use crate::case::Case;
 use crate::pipeline::RunError;
 
 /// Exit code: success.
@@ -44,22 +45,20 @@ impl Failure {
     }
 }
 
-/// Exit code and message of a failed run of the case `file`: 2 for input faults (a probe
+/// Exit code and message of a failed run of `case` from `file`: 2 for input faults (a probe
 /// outside the mesh, a case the mesher cannot meet), 3 for a nonlinear solve that did not
 /// converge, 1 otherwise.
-pub fn run_failure(e: RunError, file: &str) -> Failure {
+pub fn run_failure(e: RunError, case: &Case, file: &str) -> Failure {
     if let RunError::Mesh(MeshError::TooManyNodes { limit, .. }) = &e {
         // Almost always a size given without its unit (plain numbers are metres) or a
-        // fineness far too high: an input fault, reported with the keys to check.
-        return Failure::input(format!(
-            "{file}: mesh.max_nodes: the mesh would need more than {limit} nodes; check the units of the lengths (plain numbers are metres) and mesh.fineness"
-        ));
+        // fineness far too high: an input fault, named by the likeliest key.
+        return Failure::input(case.explain_too_many_nodes(file, *limit));
     }
     if let RunError::Mesh(m) = &e {
         // The case passed validation, so its proportions are what the mesher cannot meet
         // (e.g. a 100 m × 1 µm spheroid: its tip is sharper than any triangle allows).
         return Failure::input(format!(
-            "{file}: core and winding geometry: cannot be meshed: {m}; check the proportions of the core and windings (and mesh.min_angle)"
+            "{file}: core and winding geometry: cannot be meshed: {m}; check the proportions of the core and windings (and mesh.angle_floor)"
         ));
     }
     let code = match &e {

@@ -8,7 +8,7 @@ use clap::Args;
 
 use super::failure::EXIT_OK;
 use super::{emit, Failure};
-use crate::case::{builtin_materials, find_material, BuiltinMaterial};
+use crate::case::{builtin_materials, find_material, unknown_material, BuiltinMaterial};
 use crate::output;
 use crate::plot::materials::bh_svg;
 
@@ -50,14 +50,10 @@ pub fn materials(a: MaterialsArgs) -> Result<u8, Failure> {
         return Ok(EXIT_OK);
     };
     let Some(m) = find_material(&name) else {
-        let names: Vec<&str> = builtin_materials().iter().map(|m| m.name).collect();
-        return Err(Failure::input(format!(
-            "unknown material '{name}'; built-in: {}",
-            names.join(", ")
-        )));
+        return Err(Failure::input(unknown_material(&name)));
     };
     if let Some(path) = &a.svg {
-        output::check_paths(&[("--svg", path)], None).map_err(Failure::input)?;
+        super::args::check_outputs(&[("--svg", path.as_path())], None)?;
     }
     let points = curve_points(m);
     if let Some(path) = a.svg {

@@ -6,7 +6,7 @@ use std::path::PathBuf;
 use clap::Args;
 use serde_json::json;
 
-use super::args::{case_name, load};
+use super::args::{self, case_name, load};
 use super::failure::{run_failure, EXIT_OK};
 use super::{emit, Failure};
 use crate::geometry::region_name;
@@ -30,10 +30,10 @@ pub struct MeshArgs {
 pub fn mesh(a: MeshArgs) -> Result<u8, Failure> {
     let file = case_name(a.case.as_deref());
     if let Some(v) = &a.vtk {
-        output::check_paths(&[("--vtk", v)], a.case.as_deref()).map_err(Failure::input)?;
+        args::check_outputs(&[("--vtk", v)], a.case.as_deref())?;
     }
     let case = load(a.case.as_deref())?;
-    let d = discretise(&case).map_err(|e| run_failure(e, &file))?;
+    let d = discretise(&case).map_err(|e| run_failure(e, &case, &file))?;
     let mut st = d.mesh.stats();
     (st.min_angle_deg, st.max_aspect_ratio) = corner_quality(&d.problem.mesh);
     let fe_nodes = d.problem.mesh.nodes.len();
@@ -61,7 +61,7 @@ pub fn mesh(a: MeshArgs) -> Result<u8, Failure> {
             "regions": regions.iter().map(|(tag, name, n)| json!({
                 "id": tag, "name": name, "triangles": n
             })).collect::<Vec<_>>(),
-            "min_angle_deg": st.min_angle_deg,
+            "smallest_angle_deg": st.min_angle_deg,
             "max_aspect_ratio": st.max_aspect_ratio,
         });
         serde_json::to_string_pretty(&v).map_err(Failure::other)? + "\n"

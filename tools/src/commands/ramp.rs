@@ -52,17 +52,13 @@ pub fn ramp(a: RampArgs, quiet: bool) -> Result<u8, Failure> {
         )));
     }
     let outputs = args::outputs(&[("--csv", &a.csv), ("--svg", &a.svg)]);
-    output::check_paths(&outputs, a.case.as_deref()).map_err(Failure::input)?;
-    if case.windings.first().is_none_or(|w| w.current == 0.0) {
-        return Err(Failure::input(format!(
-            "{file}: winding: ramp needs a first [[winding]] with a nonzero current (the ramp scales it)"
-        )));
-    }
+    args::check_outputs(&outputs, a.case.as_deref())?;
+    case.check_rampable(&file).map_err(Failure::input)?;
     let result = {
         let bar = Progress::new(Some(a.steps as u64), "ramp", quiet);
         ramp_observed(&case, to, a.steps, &mut |k| bar.set(k as u64))
     }
-    .map_err(|e| run_failure(e, &file))?;
+    .map_err(|e| run_failure(e, &case, &file))?;
 
     let mut files = Vec::new();
     if let Some(path) = a.csv {

@@ -73,7 +73,7 @@ pub fn solve(a: SolveArgs, quiet: bool) -> Result<u8, Failure> {
         ("--csv", &a.csv),
         ("--history-svg", &a.history_svg),
     ]);
-    output::check_paths(&outputs, a.case.as_deref()).map_err(Failure::input)?;
+    args::check_outputs(&outputs, a.case.as_deref())?;
     if let Some(t) = a.max_seconds {
         if !(t.is_finite() && t > 0.0) {
             return Err(Failure::input(format!(
@@ -132,7 +132,7 @@ pub fn solve(a: SolveArgs, quiet: bool) -> Result<u8, Failure> {
         }
     };
     let (outcome, controlled) =
-        args::with_threads(a.threads, work)?.map_err(|e| run_failure(e, &file))?;
+        args::with_threads(a.threads, work)?.map_err(|e| run_failure(e, &case, &file))?;
 
     let mut files = Vec::new();
     if let (Some(path), Some(c)) = (a.history_svg, &controlled) {

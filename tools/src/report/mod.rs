@@ -70,8 +70,8 @@ pub struct Report {
     pub max_core_b_T: Option<f64>,
     /// Uniform background B_z, T.
     pub background_b_T: f64,
-    /// Radius of the meshed air sphere, m.
-    pub air_radius_m: f64,
+    /// Radius of the meshed surroundings (`surroundings.radius`, given or automatic), m.
+    pub surroundings_radius_m: f64,
     /// Radius of the ball used by the check estimator, m.
     pub ball_radius_m: f64,
     /// Mesh nodes.
@@ -102,8 +102,8 @@ pub struct MeshReport {
     pub triangles_core: usize,
     /// Triangles in each winding.
     pub triangles_windings: Vec<usize>,
-    /// Smallest triangle angle, degrees.
-    pub min_angle_deg: f64,
+    /// Smallest triangle angle reached, degrees.
+    pub smallest_angle_deg: f64,
     /// Largest aspect ratio (1 = equilateral).
     pub max_aspect_ratio: f64,
 }

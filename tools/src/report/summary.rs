@@ -224,10 +224,10 @@ pub fn summary(r: &Report, show_timings: bool, digits: usize) -> String {
     );
     let _ = writeln!(
         s,
-        "          smallest angle {:.1}°, worst aspect ratio {:.2}, air sphere radius {}",
-        r.mesh.min_angle_deg,
+        "          smallest angle {:.1}°, worst aspect ratio {:.2}, surroundings radius {}",
+        r.mesh.smallest_angle_deg,
         r.mesh.max_aspect_ratio,
-        mm(r.air_radius_m)
+        mm(r.surroundings_radius_m)
     );
     if show_timings {
         let t = &r.timings_s;
