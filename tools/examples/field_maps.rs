@@ -1,7 +1,7 @@
 //! Renders the field map of every case under `cases/` into a folder, to look at them:
 //! `cargo run --release -p axicore --example field_maps -- OUT_DIR [WIDTH_PX]`.
 //! Writes `NAME.png`, `NAME.svg` and `NAME-full.png` (mirrored full section) per case and
-//! prints the time each picture took.
+//! prints the post-processing time with and without the picture.
 
 use std::path::Path;
 use std::time::Instant;
@@ -25,10 +25,19 @@ fn main() {
         .map(|e| e.file_name().to_string_lossy().into_owned())
         .collect();
     names.sort();
+    // FIELD_MAPS_ONLY=NAME renders one case.
+    if let Ok(only) = std::env::var("FIELD_MAPS_ONLY") {
+        names.retain(|n| *n == only);
+    }
     for name in names {
         let file = cases.join(&name).join("case.toml");
         let text = std::fs::read_to_string(&file).unwrap();
         let case = parse_case(&text, &file.display().to_string()).unwrap();
+        let plain = run(&case, &RunOptions::default()).unwrap();
+        println!(
+            "{name}: post-processing without a picture {:.2} s",
+            plain.report.timings_s.post
+        );
         for (suffix, format, mirror) in [
             ("png", PictureFormat::Png, false),
             ("svg", PictureFormat::Svg, false),
