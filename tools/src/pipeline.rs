@@ -31,6 +31,8 @@ pub struct RunOptions {
     pub refine_at: Vec<([f64; 2], f64)>,
     /// Keep the solved field in the outcome (to start a finer level from).
     pub keep_field: bool,
+    /// Produce a field-map picture (PNG or SVG bytes) with these options.
+    pub picture: Option<crate::plot::field_map::FieldMapOptions>,
 }
 
 /// Everything a run produces.
@@ -42,6 +44,8 @@ pub struct Outcome {
     pub line_csv: Option<String>,
     /// VTK (.vtu) bytes, if asked.
     pub vtk: Option<Vec<u8>>,
+    /// Field-map picture bytes (PNG or SVG), if asked.
+    pub picture: Option<Vec<u8>>,
     /// Per-element error indicators, if asked.
     pub indicators: Option<Vec<ElementIndicator>>,
     /// The solved field with its model, if asked (`RunOptions::keep_field`), to start the next
@@ -77,6 +81,9 @@ pub enum RunError {
     /// The field solve or post-processing failed.
     #[error("solve failed: {0}")]
     Solve(#[from] SolverError),
+    /// The field-map picture could not be drawn.
+    #[error("--picture: {0}")]
+    Picture(#[from] crate::plot::field_map::FieldMapError),
     /// A probe point or line lies outside the meshed region.
     #[error("{option}: {source} (meshed surroundings radius {surroundings_radius_m:.4} m)")]
     Probe {
@@ -436,6 +443,12 @@ pub fn run_from(
     } else {
         None
     };
+    let picture = match &opts.picture {
+        Some(p) => Some(crate::plot::field_map_case::render_case(
+            &model, &sol, case, p,
+        )?),
+        None => None,
+    };
     let w_energy = energy::energy(&model, &sol);
     let indicators = if opts.indicators {
         Some(indicator::goal_indicators(&model, &sol, &locator)?)
@@ -509,6 +522,7 @@ pub fn run_from(
         report,
         line_csv,
         vtk,
+        picture,
         indicators,
         field,
     })

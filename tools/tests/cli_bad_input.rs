@@ -197,8 +197,24 @@ fn a_length_without_its_unit_that_explodes_the_mesh_is_an_input_fault() {
             "{}\n[mesh]\nmax_nodes = 20000\n",
             GOOD.replace("length = \"60 mm\"", "length = \"100\"")
         ),
-        &["mesh.max_nodes", "units"],
+        &["winding[1].length", "read as 100 m"],
     );
+}
+
+#[test]
+fn a_legacy_vtk_extension_is_refused_with_the_name_to_use() {
+    let dir = std::env::temp_dir().join(format!("axicore-legacy-vtk-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let out = dir.join("field.vtk");
+    let run = std::process::Command::new(env!("CARGO_BIN_EXE_axicore"))
+        .args(["solve", "--vtk", out.to_str().unwrap()])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&run.stderr);
+    assert_eq!(run.status.code(), Some(2), "{err}");
+    assert!(err.contains("field.vtu") && err.lines().count() == 1, "{err}");
+    assert!(!out.exists() && run.stdout.is_empty());
+    let _ = std::fs::remove_dir_all(&dir);
 }
 
 #[test]

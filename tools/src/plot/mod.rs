@@ -13,12 +13,22 @@ use plotters::prelude::*;
 use plotters::style::{register_font, FontStyle};
 use thiserror::Error;
 
+pub mod colormap;
+pub mod contour;
+pub mod field_map;
+pub mod field_map_case;
+mod field_map_draw;
+pub mod field_source;
 pub mod history;
 pub mod materials;
+pub mod outline;
+pub mod overlay;
 pub mod ramp;
+pub mod raster;
+pub mod view;
 
 const FONT_BYTES: &[u8] = include_bytes!("../../assets/DejaVuSans.ttf");
-const FAMILY: &str = "sans-serif";
+pub(crate) const FAMILY: &str = "sans-serif";
 /// Smallest accepted chart, in pixels; below this the label areas leave no room to plot.
 pub const MIN_SIZE: (u32, u32) = (240, 180);
 
@@ -263,7 +273,7 @@ fn draw_err<E: std::error::Error + Send + Sync>(e: DrawingAreaErrorKind<E>) -> P
 }
 
 /// Registers the embedded font once per process; later calls only read the stored outcome.
-fn ensure_font() -> Result<(), PlotError> {
+pub(crate) fn ensure_font() -> Result<(), PlotError> {
     static REGISTERED: OnceLock<bool> = OnceLock::new();
     let ok =
         REGISTERED.get_or_init(|| register_font(FAMILY, FontStyle::Normal, FONT_BYTES).is_ok());
