@@ -93,10 +93,9 @@ mod tests {
         let l = labels(&case);
         assert_eq!(l.region_names[0], "air");
         assert_eq!(l.region_names[1], "core");
-        assert_eq!(
-            l.region_names[2],
-            format!("winding {}", case.windings[0].name)
-        );
+        assert_eq!(l.region_names[2], case.windings[0].name);
+        let kinds = &l.extra[0];
+        assert_eq!(kinds.name, "region_kinds");
         assert_eq!(l.region_names.len(), 2 + case.windings.len());
     }
 }
