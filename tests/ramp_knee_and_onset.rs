@@ -46,15 +46,26 @@ b = ["0 T", "0.05 T", "0.2 T", "0.6 T", "1.0 T", "1.3 T", "1.5 T", "1.65 T", "1.
 /// Checks what a knee must be on `r`: past the largest slope, with the step slopes on either
 /// side of it bracketing half that slope.
 fn check_knee(r: &RampResult, label: &str) -> f64 {
-    let knee = r.knee_current_A.unwrap_or_else(|| panic!("{label}: no knee"));
+    let knee = r
+        .knee_current_A
+        .unwrap_or_else(|| panic!("{label}: no knee"));
     let (largest, at) = r.max_incremental_moment_Am2_per_A;
-    assert!(knee > at, "{label}: knee {knee} A before the largest slope at {at} A");
+    assert!(
+        knee > at,
+        "{label}: knee {knee} A before the largest slope at {at} A"
+    );
     let before = r.rows.iter().rev().find(|row| row.current_A <= knee);
     let after = r.rows.iter().find(|row| row.current_A >= knee).unwrap();
     let half = 0.5 * largest;
-    assert!(after.incremental_moment_Am2_per_A <= half * (1.0 + 1e-9), "{label}: {after:?}");
+    assert!(
+        after.incremental_moment_Am2_per_A <= half * (1.0 + 1e-9),
+        "{label}: {after:?}"
+    );
     if let Some(b) = before {
-        assert!(b.incremental_moment_Am2_per_A >= half * 0.98, "{label}: {b:?}");
+        assert!(
+            b.incremental_moment_Am2_per_A >= half * 0.98,
+            "{label}: {b:?}"
+        );
     }
     knee
 }
@@ -67,7 +78,10 @@ fn stable(toml: &str, to: f64, label: &str) -> (RampResult, RampResult) {
     let fine = ramp(&case, to, 40).unwrap();
     let step = to / 10.0;
     let (k10, k40) = (check_knee(&coarse, label), check_knee(&fine, label));
-    assert!((k10 - k40).abs() < 0.25 * step, "{label}: knee {k10} vs {k40} A");
+    assert!(
+        (k10 - k40).abs() < 0.25 * step,
+        "{label}: knee {k10} vs {k40} A"
+    );
     let o10 = coarse.saturation_onset.as_ref().expect("onset at 10 steps");
     let o40 = fine.saturation_onset.as_ref().expect("onset at 40 steps");
     assert!(
@@ -78,7 +92,11 @@ fn stable(toml: &str, to: f64, label: &str) -> (RampResult, RampResult) {
     );
     // Never a corner sliver: the onset lies inside the core, clear of its end faces.
     let half_length = 0.035;
-    assert!(o40.at_m[1].abs() < half_length * 0.95, "{label}: {:?}", o40.at_m);
+    assert!(
+        o40.at_m[1].abs() < half_length * 0.95,
+        "{label}: {:?}",
+        o40.at_m
+    );
     (coarse, fine)
 }
 
@@ -94,7 +112,11 @@ fn knee_and_onset_on_the_knee_law_are_step_independent() {
 #[test]
 fn knee_on_a_rising_permeability_table_lies_past_its_steepest_point() {
     let (_, fine) = stable(&rod(RISING_TABLE), 4.0, "rising table");
-    assert!(!fine.slope_largest_at_zero, "{:?}", fine.max_incremental_moment_Am2_per_A);
+    assert!(
+        !fine.slope_largest_at_zero,
+        "{:?}",
+        fine.max_incremental_moment_Am2_per_A
+    );
     // The curve runs above the zero-current line first, so the 10 % figure is withheld.
     assert!(fine.line_knee_current_A.is_none());
 }

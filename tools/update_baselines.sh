@@ -11,7 +11,7 @@ for case in cases/*/case.toml; do
 import json, sys
 d = json.load(sys.stdin)
 keys = ["nodes", "triangles", "dipole_moment_Am2", "core_dipole_moment_Am2",
-        "winding_dipole_moment_Am2", "dipole_check_Am2", "apparent_gain", "b_origin_T",
+        "winding_dipole_moment_Am2", "dipole_check_Am2", "moment_gain", "b_origin_T",
         "inductance_H", "energy_J", "max_core_b_T", "newton_iterations"]
 print(json.dumps({k: d[k] for k in keys}, indent=2))
 ' > "$dir/baseline.json.tmp"

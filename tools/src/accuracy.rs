@@ -179,6 +179,8 @@ pub fn run_to_tolerance_observed(
             indicators: refine == Refine::Adaptive,
             refine_at: refine_at.clone(),
             keep_field: true,
+            // The picture is drawn once, from the finest level (below).
+            picture: None,
             ..opts.clone()
         };
         let mut level_case = case.clone();
@@ -256,6 +258,9 @@ pub fn run_to_tolerance_observed(
             None
         };
         if let Some(stop) = stop {
+            if let (Some(p), Some(field)) = (&opts.picture, &previous) {
+                outcome.picture = Some(field.picture(&level_case, p)?);
+            }
             return Ok(Controlled {
                 outcome,
                 history: History {

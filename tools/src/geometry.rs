@@ -16,18 +16,6 @@ pub fn winding_tag(k: usize) -> u32 {
     2 + k as u32
 }
 
-/// Name of region `tag` in reports and files: "air", "core" or the winding's own name.
-pub fn region_name(case: &Case, tag: u32) -> String {
-    match tag {
-        AIR_TAG => "air".into(),
-        CORE_TAG => "core".into(),
-        k => case
-            .windings
-            .get(k as usize - 2)
-            .map_or_else(|| format!("winding {}", k - 1), |w| w.name.clone()),
-    }
-}
-
 /// Radius of the ball used for the field-route dipole check, in m.
 pub fn ball_radius(case: &Case) -> f64 {
     BALL_FACTOR * case.source_radius()

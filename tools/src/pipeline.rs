@@ -62,6 +62,20 @@ pub struct FieldSnapshot {
 }
 
 impl FieldSnapshot {
+    /// The field-map picture of this field (PNG or SVG bytes).
+    pub fn picture(
+        &self,
+        case: &Case,
+        opts: &crate::plot::field_map::FieldMapOptions,
+    ) -> Result<Vec<u8>, RunError> {
+        Ok(crate::plot::field_map_case::render_case(
+            &self.model,
+            &self.sol,
+            case,
+            opts,
+        )?)
+    }
+
     /// The reaction potential (total A_φ minus the background's B0 r/2) at `p`, Wb/m; None
     /// outside the mesh.
     pub fn reaction_a_at(&self, p: [f64; 2]) -> Option<f64> {

@@ -195,15 +195,21 @@ pub fn ramp_observed(
         on_step(k);
     }
     let curve: Vec<[f64; 3]> = std::iter::once([0.0, m0, slope])
-        .chain(
-            rows.iter()
-                .map(|r| [r.current_A, r.dipole_moment_Am2, r.incremental_moment_Am2_per_A]),
-        )
+        .chain(rows.iter().map(|r| {
+            [
+                r.current_A,
+                r.dipole_moment_Am2,
+                r.incremental_moment_Am2_per_A,
+            ]
+        }))
         .collect();
     let max_slope = curve
         .iter()
         .map(|p| (p[0], p[2]))
-        .fold((0.0, 0.0), |a: (f64, f64), b| if b.1.abs() > a.1.abs() { b } else { a });
+        .fold(
+            (0.0, 0.0),
+            |a: (f64, f64), b| if b.1.abs() > a.1.abs() { b } else { a },
+        );
     let largest_at_zero = slope.abs() >= (1.0 - SLOPE_AT_ZERO_IS_LARGEST) * max_slope.1.abs();
     let onset = sat0.b_sat.and_then(|bs| {
         saturation_onset(&peaks, SATURATED_FRACTION_OF_BSAT * bs).map(|(i, at)| SaturationOnset {

@@ -212,7 +212,10 @@ fn a_legacy_vtk_extension_is_refused_with_the_name_to_use() {
         .unwrap();
     let err = String::from_utf8_lossy(&run.stderr);
     assert_eq!(run.status.code(), Some(2), "{err}");
-    assert!(err.contains("field.vtu") && err.lines().count() == 1, "{err}");
+    assert!(
+        err.contains("field.vtu") && err.lines().count() == 1,
+        "{err}"
+    );
     assert!(!out.exists() && run.stdout.is_empty());
     let _ = std::fs::remove_dir_all(&dir);
 }

@@ -9,9 +9,9 @@ use serde_json::json;
 use super::args::{self, case_name, load};
 use super::failure::{run_failure, EXIT_OK};
 use super::{emit, Failure};
-use crate::geometry::region_name;
 use crate::output;
 use crate::pipeline::{corner_quality, discretise};
+use crate::vtk_map::region_name;
 
 /// Options of `axicore mesh`.
 #[derive(Args, Debug)]
@@ -45,9 +45,7 @@ pub fn mesh(a: MeshArgs) -> Result<u8, Failure> {
         .collect();
 
     if let Some(path) = a.vtk {
-        let region: Vec<i32> = d.problem.mesh.tags.iter().map(|&t| t as i32).collect();
-        let bytes = axicore_solver::export::vtk::vtu_bytes(&d.problem.mesh, &[], &[], &region)
-            .map_err(Failure::other)?;
+        let bytes = crate::vtk_map::mesh_vtu(&case, &d.problem.mesh).map_err(Failure::other)?;
         output::write_all(&[(path, bytes)]).map_err(Failure::other)?;
     }
 

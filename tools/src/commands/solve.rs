@@ -10,10 +10,13 @@ use super::{emit, Failure};
 use crate::accuracy::{self, History};
 use crate::output;
 use crate::pipeline::{run, Outcome, RunError, RunOptions};
+use crate::plot::field_map::{FieldMapOptions, MapScale, PictureFormat};
 use crate::plot::history::history_svg;
+use crate::plot::view::Window;
 use crate::progress::Progress;
 use crate::report::format::digits_for;
 use crate::report::{history_text, summary, to_json};
+use crate::units::{self, Dimension};
 
 /// Options of `axicore solve`.
 #[derive(Args, Debug)]
@@ -60,6 +63,27 @@ pub struct SolveArgs {
         default_value = "uniform"
     )]
     refine: String,
+    /// Draw a field-map picture (|B| colour map, flux lines, outlines) to FILE.png or FILE.svg.
+    #[arg(long, value_name = "FILE")]
+    picture: Option<PathBuf>,
+    /// Window of the picture "R0,R1,Z0,Z1" (lengths with units; default: core and windings
+    /// with a margin).
+    #[arg(long, value_name = "R0,R1,Z0,Z1", requires = "picture")]
+    picture_window: Option<String>,
+    /// Draw the full section (mirrored about the axis) instead of the half-plane.
+    #[arg(long, requires = "picture")]
+    picture_mirror: bool,
+    /// Colour scale of |B|: "log" (default) or "linear".
+    #[arg(
+        long,
+        value_name = "SCALE",
+        requires = "picture",
+        default_value = "log"
+    )]
+    picture_scale: String,
+    /// Picture width in pixels.
+    #[arg(long, value_name = "PX", requires = "picture", default_value_t = 800)]
+    picture_width: u32,
     /// Draw the --tolerance history (error against unknowns, moment per level) as an SVG plot.
     #[arg(long, value_name = "FILE", requires = "tolerance")]
     history_svg: Option<PathBuf>,
@@ -72,6 +96,7 @@ pub fn solve(a: SolveArgs, quiet: bool) -> Result<u8, Failure> {
         ("--vtk", &a.vtk),
         ("--csv", &a.csv),
         ("--history-svg", &a.history_svg),
+        ("--picture", &a.picture),
     ]);
     args::check_outputs(&outputs, a.case.as_deref())?;
     if let Some(t) = a.max_seconds {
@@ -100,6 +125,7 @@ pub fn solve(a: SolveArgs, quiet: bool) -> Result<u8, Failure> {
     }
     let mut opts = RunOptions {
         vtk: a.vtk.is_some(),
+        picture: picture_options(&a)?,
         ..Default::default()
     };
     for p in &a.point {
@@ -142,6 +168,9 @@ pub fn solve(a: SolveArgs, quiet: bool) -> Result<u8, Failure> {
     if let (Some(path), Some(bytes)) = (a.vtk, outcome.vtk) {
         files.push((path, bytes));
     }
+    if let (Some(path), Some(bytes)) = (a.picture, outcome.picture) {
+        files.push((path, bytes));
+    }
     if let (Some(path), Some(text)) = (a.csv, outcome.line_csv) {
         files.push((path, text.into_bytes()));
     }
@@ -171,4 +200,47 @@ pub fn solve(a: SolveArgs, quiet: bool) -> Result<u8, Failure> {
         }
         _ => Ok(EXIT_OK),
     }
+}
+
+/// The field-map options asked for, checked before any work.
+fn picture_options(a: &SolveArgs) -> Result<Option<FieldMapOptions>, Failure> {
+    let Some(path) = &a.picture else {
+        return Ok(None);
+    };
+    let fault = |e: &dyn std::fmt::Display| Failure::input(format!("--picture: {e}"));
+    let mut o = FieldMapOptions {
+        format: PictureFormat::from_path(path).map_err(|e| fault(&e))?,
+        width_px: a.picture_width,
+        mirror: a.picture_mirror,
+        ..Default::default()
+    };
+    o.scale = match a.picture_scale.as_str() {
+        "log" => MapScale::Log,
+        "linear" => MapScale::Linear,
+        other => {
+            return Err(Failure::input(format!(
+                "--picture-scale: '{other}' must be log or linear"
+            )))
+        }
+    };
+    if let Some(w) = &a.picture_window {
+        let v: Vec<&str> = w.split(',').collect();
+        let [r0, r1, z0, z1] = v[..] else {
+            return Err(Failure::input(format!(
+                "--picture-window: '{w}' must be R0,R1,Z0,Z1"
+            )));
+        };
+        let len = |t: &str| {
+            units::parse_supported(t, Dimension::Length)
+                .map_err(|e| Failure::input(format!("--picture-window: {e}")))
+        };
+        o.window = Some(Window {
+            r0: len(r0)?,
+            r1: len(r1)?,
+            z0: len(z0)?,
+            z1: len(z1)?,
+        });
+    }
+    o.validate().map_err(|e| fault(&e))?;
+    Ok(Some(o))
 }
