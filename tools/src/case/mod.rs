@@ -305,7 +305,7 @@ pub enum CaseError {
 
 impl fmt::Display for CoreShape {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        let mm = |x: f64| x * 1e3;
+        let mm = |x: f64| crate::report::format::input(x * 1e3);
         match *self {
             CoreShape::Rod { length, diameter } => {
                 write!(

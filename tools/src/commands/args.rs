@@ -90,10 +90,11 @@ pub fn outputs<'a>(asked: &[(&'a str, &'a Option<PathBuf>)]) -> Vec<(&'a str, &'
         .collect()
 }
 
-/// Checks the outputs before any work: each path's extension fits its option (a legacy
-/// `.vtk` name for a `.vtu` map is refused with the name to use), and the paths themselves
-/// are safe to write ([`crate::output::check_paths`]).
+/// Checks the outputs before any work: the paths are safe to write
+/// ([`crate::output::check_paths`]), and each extension fits its option (a legacy `.vtk`
+/// name for a `.vtu` map is refused with the name to use).
 pub fn check_outputs(outputs: &[(&str, &Path)], input: Option<&Path>) -> Result<(), Failure> {
+    crate::output::check_paths(outputs, input).map_err(Failure::input)?;
     for &(option, path) in outputs {
         let expected: &[&str] = match option {
             "--vtk" => &["vtu"],
@@ -103,5 +104,5 @@ pub fn check_outputs(outputs: &[(&str, &Path)], input: Option<&Path>) -> Result<
         };
         crate::output_names::check_extension(option, path, expected).map_err(Failure::input)?;
     }
-    crate::output::check_paths(outputs, input).map_err(Failure::input)
+    Ok(())
 }

@@ -372,7 +372,14 @@ fn tick_label(v: f64, span: f64) -> String {
     if a <= span * 1e-9 || a == 0.0 {
         "0".to_string()
     } else if (1e-3..1e4).contains(&a) {
-        let decimals = (3 - a.log10().floor() as i32).clamp(0, 6) as usize;
+        // About four significant digits, more when the axis spans less than that resolves
+        // (a moment converging in its fifth digit must not label every tick alike).
+        let resolve = if span > 0.0 {
+            (-(span / 10.0).log10()).ceil() as i32
+        } else {
+            0
+        };
+        let decimals = (3 - a.log10().floor() as i32).max(resolve).clamp(0, 9) as usize;
         trim(&format!("{v:.decimals$}"))
     } else {
         let s = format!("{v:.3e}");
