@@ -11,7 +11,7 @@ use axicore_solver::material::{
 use axicore_solver::Material;
 
 use super::materials;
-use super::parse::read_text;
+use super::read::read_text;
 use super::section::{hint, Section};
 use super::CaseError;
 use crate::units::Dimension;

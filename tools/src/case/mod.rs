@@ -8,6 +8,7 @@ mod advice;
 mod core_material;
 mod materials;
 mod parse;
+mod read;
 mod section;
 mod validate;
 

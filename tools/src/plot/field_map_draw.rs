@@ -10,7 +10,7 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 
 use super::colormap::{viridis, ColourScale};
-use super::field_map::{FieldMapError, Scene};
+use super::field_map_scene::{FieldMapError, Scene};
 use super::overlay;
 use super::FAMILY;
 

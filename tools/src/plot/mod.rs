@@ -18,6 +18,7 @@ pub mod contour;
 pub mod field_map;
 pub mod field_map_case;
 mod field_map_draw;
+mod field_map_scene;
 pub mod field_source;
 pub mod history;
 pub mod materials;
