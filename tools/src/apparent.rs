@@ -32,7 +32,7 @@ pub struct Apparent {
 }
 
 /// Volume average of B_z over the core elements of `model` for `sol`, T.
-fn core_average_bz(model: &Model, sol: &Solution) -> f64 {
+pub fn core_average_bz(model: &Model, sol: &Solution) -> f64 {
     let (mut sum, mut volume) = (0.0, 0.0);
     for (e, g) in model.geometry().iter().enumerate() {
         if model.mesh().tags[e] != CORE_TAG {
@@ -50,16 +50,15 @@ fn core_average_bz(model: &Model, sol: &Solution) -> f64 {
     }
 }
 
-/// The figures for the solved field `sol` and the applied field `applied` of the same sources.
+/// The figures for the solved field `sol`, given ⟨H_app,z⟩ over the core in A/m.
 pub fn apparent(
     model: &Model,
     case: &Case,
     sol: &Solution,
-    applied: &Solution,
+    applied_h_avg: f64,
 ) -> Option<Apparent> {
     let core = case.core.as_ref()?;
     let b_avg = core_average_bz(model, sol);
-    let applied_h_avg = core_average_bz(model, applied) / MU0;
     let mu_app = (applied_h_avg != 0.0).then(|| b_avg / (MU0 * applied_h_avg));
     let ellipsoid_n = ellipsoid_factor(aspect_ratio(&core.shape));
     let mu_i = core.material.initial_mu_r();

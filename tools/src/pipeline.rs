@@ -365,11 +365,16 @@ pub fn run_from(
 
     let b_origin = sol.b_recovered(&model, &locator, [0.0, 0.0])?.2[1];
     // The applied field (core replaced by vacuum) for the apparent permeability: one more
-    // numeric factorisation on the same pattern.
+    // numeric factorisation on the same pattern when windings drive the core.
+    // A background alone applies the uniform B0 exactly; windings need the solve.
     let apparent = match &case.core {
-        Some(_) if fig.winding != 0.0 || b0 != 0.0 => {
+        Some(_) if fig.winding != 0.0 => {
             let applied = model.applied_field(&j_full, b0)?;
-            crate::apparent::apparent(&model, case, &sol, &applied)
+            let h = crate::apparent::core_average_bz(&model, &applied) / axicore_solver::MU0;
+            crate::apparent::apparent(&model, case, &sol, h)
+        }
+        Some(_) if b0 != 0.0 => {
+            crate::apparent::apparent(&model, case, &sol, b0 / axicore_solver::MU0)
         }
         _ => None,
     };
