@@ -1,4 +1,4 @@
-//! Loops, solenoids and inductance in closed form (sources: /work/shared/references.md §3–§4).
+//! Loops, solenoids and inductance in closed form (sources: ../shared/references.md (outside the repository) §3–§4).
 //!
 //! Every function returns NaN for input outside its physical domain (negative radius, zero
 //! length, …) instead of panicking, so a test comparing against it fails loudly.

@@ -1,7 +1,7 @@
 //! Closed-form reference results for the axicore validation tests.
 //!
 //! Pure functions in SI units (m, A, T, A/m, H, Wb/m), each citing the published formula it
-//! evaluates; the check values of `/work/shared/references.md` §7 are asserted in the unit tests
+//! evaluates; the check values of `../shared/references.md (outside the repository)` §7 are asserted in the unit tests
 //! beside each function. Input outside a formula's domain returns NaN rather than panicking, so a
 //! comparison against it fails instead of aborting the test run.
 //!
