@@ -241,3 +241,21 @@ fn progress_stays_off_a_piped_standard_error() {
     assert_eq!(code, 0, "{err}");
     assert!(err.is_empty(), "{err:?}");
 }
+
+#[test]
+fn mesh_json_names_its_regions_and_counts_agree_with_the_solve() {
+    let (code, out, err) = axicore(&["mesh", "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let m: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let names: Vec<&str> = m["regions"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| r["name"].as_str().unwrap())
+        .collect();
+    assert_eq!(names, ["air", "core", "main"]);
+    let (_, out, _) = axicore(&["solve", "--json"]);
+    let s: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(m["nodes"], s["nodes"]);
+    assert_eq!(m["triangles"], s["triangles"]);
+}
