@@ -14,6 +14,7 @@ mod validate;
 
 pub use materials::{builtin_materials, find as find_material, unknown_material, BuiltinMaterial};
 pub use parse::{parse_case, read_case_file};
+pub use read::read_case_text;
 pub use validate::{
     AUTO_EXACT_RADIUS_FACTOR, AUTO_FIXED_RADIUS_FACTOR, BALL_FACTOR, MIN_SURROUNDINGS_FACTOR,
 };

@@ -22,3 +22,12 @@ pub(super) fn read_text(path: &Path) -> Result<String, String> {
     }
     String::from_utf8(bytes).map_err(|_| "stream did not contain valid UTF-8".into())
 }
+
+/// The text of an input file (a case or a sweep's shard) with the checks of [`read_text`];
+/// the error names the file.
+pub fn read_case_text(path: &Path) -> Result<String, super::CaseError> {
+    read_text(path).map_err(|reason| super::CaseError::Read {
+        file: path.display().to_string(),
+        reason,
+    })
+}

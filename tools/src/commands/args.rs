@@ -98,7 +98,7 @@ pub fn check_outputs(outputs: &[(&str, &Path)], input: Option<&Path>) -> Result<
     for &(option, path) in outputs {
         let expected: &[&str] = match option {
             "--vtk" => &["vtu"],
-            "--csv" => &["csv"],
+            "--csv" | "--out" => &["csv"],
             "--picture" => &["png", "svg"],
             _ => &["svg"],
         };

@@ -17,6 +17,8 @@ pub const EXIT_NOT_CONVERGED: u8 = 3;
 /// Exit code: `--tolerance` was not reached (a cap stopped refinement); the result is printed
 /// and written, flagged as short of the tolerance.
 pub const EXIT_TOLERANCE_MISSED: u8 = 4;
+/// Exit code: a sweep finished, but some of its points failed (their rows say why).
+pub const EXIT_POINTS_FAILED: u8 = 5;
 
 /// A failure with its exit code and one-line message.
 #[derive(Debug)]

@@ -13,11 +13,12 @@ mod materials;
 mod mesh;
 mod ramp;
 mod solve;
+mod sweep;
 
 pub use emit::emit;
 pub use failure::{
     run_failure, Failure, EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_NOT_CONVERGED, EXIT_OK,
-    EXIT_TOLERANCE_MISSED,
+    EXIT_POINTS_FAILED, EXIT_TOLERANCE_MISSED,
 };
 pub use materials::curve_points;
 
@@ -33,16 +34,18 @@ Examples:
   axicore mesh my.toml --vtk mesh.vtu             mesh only, print statistics
   axicore ramp --to 300mA --steps 30 --csv m.csv --svg m.svg
                                                   moment–current curve of the example
+  axicore sweep my.toml --vary core.length=50mm..100mm:6 --values core.mu_r=1000,10000 --out s.csv
+                                                  12 solves into one CSV (rerun resumes)
   axicore example > my.toml                       start a case from the example
   axicore materials                               list built-in materials
   axicore materials nickel-iron-80 --csv          print a material's B–H curve
 
 Exit codes: 0 success, 1 failure, 2 bad input, 3 the nonlinear solve did not converge,
-4 --tolerance not reached (the result is printed, flagged).";
+4 --tolerance not reached (the result is printed, flagged), 5 some sweep points failed.";
 
 /// The short usage line printed when no subcommand is given.
 const USAGE: &str =
-    "usage: axicore <solve|mesh|ramp|example|materials> [CASE] [OPTIONS] (axicore --help for more)";
+    "usage: axicore <solve|mesh|ramp|sweep|merge|example|materials> [CASE] [OPTIONS] (axicore --help for more)";
 
 /// Axisymmetric finite-element magnetostatics for rod-core coils: dipole moment per winding
 /// on a finite core, fields, inductance, VTK maps.
@@ -66,6 +69,10 @@ enum Command {
     /// Moment against current: solve rising currents with continuation, find the knee.
     #[command(after_help = EXAMPLES)]
     Ramp(ramp::RampArgs),
+    /// Solve a grid of variants of a case (keys varied over ranges or lists) into one CSV.
+    Sweep(sweep::SweepArgs),
+    /// Join the shard files of a sweep into the file the unsharded sweep writes.
+    Merge(sweep::MergeArgs),
     /// Print the built-in example case file.
     Example,
     /// List the built-in materials, or print or draw one material's B–H curve.
@@ -88,6 +95,8 @@ pub fn main() -> ExitCode {
         Command::Solve(a) => solve::solve(a, quiet),
         Command::Mesh(a) => mesh::mesh(a),
         Command::Ramp(a) => ramp::ramp(a, quiet),
+        Command::Sweep(a) => sweep::sweep(a, quiet),
+        Command::Merge(a) => sweep::merge_shards(a),
         Command::Example => example::example(),
         Command::Materials(a) => materials::materials(a),
     };
