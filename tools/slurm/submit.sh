@@ -60,10 +60,14 @@ if [ "$wait" = yes ]; then
     for _ in $(seq 50); do [ -s "$OUT_DIR/.merge-job" ] && break; sleep 0.1; done
     [ -s "$OUT_DIR/.merge-job" ] && echo "merge $(cut -d';' -f1 < "$OUT_DIR/.merge-job")"
     status=0; wait "$pid" || status=$?
+    merge=$(cut -d';' -f1 < "$OUT_DIR/.merge-job" 2> /dev/null || true)
     rm -f "$OUT_DIR/.merge-job"
-    if [ "$status" -ne 0 ]; then
-        echo "submit.sh: the sweep failed (merge job exit $status); logs in $OUT_DIR/slurm-*.out" >&2
-        exit "$status"
+    # sbatch --wait exits 0 for a job cancelled before it started, as the merge is when a shard
+    # fails: so the job's final state is read back too (slurmctld keeps it for MinJobAge).
+    state=$(scontrol show job "$merge" -o 2> /dev/null | grep -o 'JobState=[A-Z_]*' | cut -d= -f2 || true)
+    if [ "$status" -ne 0 ] || { [ -n "$state" ] && [ "$state" != COMPLETED ]; } || [ ! -f "$OUT_DIR/sweep.csv" ]; then
+        echo "submit.sh: the sweep failed (merge job ${merge:-?} ${state:-state unknown}, exit $status; a failed shard cancels the merge); logs in $OUT_DIR/slurm-*.out" >&2
+        exit $(( status != 0 ? status : 1 ))
     fi
     echo "merged $OUT_DIR/sweep.csv"
 else

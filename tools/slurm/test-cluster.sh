@@ -59,7 +59,7 @@ say "slurm $(slurmctld -V | awk '{print $2}'), munge $(munged -V | awk '{print $
 tmp=$(mktemp -d /tmp/axicore-slurm.XXXXXX)
 chmod 755 "$tmp"
 mkdir -p "$tmp/munge" "$tmp/state" "$tmp/spool" "$tmp/log" "$tmp/run" "$tmp/work"
-chmod 700 "$tmp/munge"
+chmod 755 "$tmp/munge" # munged wants its socket directory searchable by all
 pids=("$tmp/run/slurmd.pid" "$tmp/run/slurmctld.pid" "$tmp/run/munged.pid")
 cleanup() {
     local status=$?
@@ -184,10 +184,15 @@ JOB
     array=$(sbatch --parsable --export=ALL --array=1-4 --output="$work/slurm-%A_%a.out" "$work/task.sbatch") \
         || die "sbatch of the array job"
     say "array job $array submitted"
-    run_limited 120 sbatch --parsable --export=ALL --wait --dependency="afterok:${array%%;*}" \
-        --kill-on-invalid-dep=yes --output="$work/slurm-%j-merge.out" "$work/merge.sbatch" > /dev/null \
+    merge=$(run_limited 120 sbatch --parsable --export=ALL --wait --dependency="afterok:${array%%;*}" \
+        --kill-on-invalid-dep=yes --output="$work/slurm-%j-merge.out" "$work/merge.sbatch") \
         || die "the merge job failed"
-    say "merge job done ($(elapsed))"
+    # sbatch --wait exits 0 for a job cancelled before it started (as a merge is when a task
+    # fails), so every state is read back: four tasks and the merge, all COMPLETED.
+    states=$(scontrol show job "${array%%;*}" -o; scontrol show job "${merge%%;*}" -o)
+    states=$(grep -o 'JobState=[A-Z_]*' <<< "$states" | sort | uniq -c | tr -s ' ' | tr '\n' ';')
+    [ "$states" = " 5 JobState=COMPLETED;" ] || die "job states: $states (want 5 COMPLETED)"
+    say "merge job done, all 5 jobs COMPLETED ($(elapsed))"
     for k in 1 2 3 4; do printf 'task %s of 4 on %s\n' "$k" "$node"; done > "$work/expected.txt"
     cmp "$work/expected.txt" "$work/all.txt" || { diff "$work/expected.txt" "$work/all.txt" >&2 || true; die "merged output differs"; }
     say "self-test passed: 4 array tasks and the dependent merge wrote the expected file ($(elapsed))"
