@@ -2,21 +2,23 @@
 # Submit a sharded axicore sweep to Slurm: an array of N tasks (one shard each, see
 # sweep-array.sbatch) and a merge job that runs only if every task succeeded (sweep-merge.sbatch).
 #
-#   tools/slurm/submit.sh [--shards N] [--wait] [--axicore PATH] CASE OUT_DIR -- SWEEP_ARGS…
+#   tools/slurm/submit.sh [--shards N] [--cpus N] [--wait] [--axicore PATH] CASE OUT_DIR -- SWEEP_ARGS…
 #
 # SWEEP_ARGS are the options of `axicore sweep` other than --shard and --out (--vary, --values,
 # --tolerance, --jobs). The merged table is OUT_DIR/sweep.csv, the shards OUT_DIR/shard-K.csv,
 # the job logs OUT_DIR/slurm-*.out. Prints "array JOBID" and "merge JOBID". With --wait it blocks
 # until the merge job ends and exits with its status (non-zero if a shard or the merge failed).
+# --cpus N asks N CPUs for each shard (default 1): match the sweep's --jobs N.
 # Other sbatch settings (partition, account, time limit) come from sbatch's own SBATCH_*
 # environment variables, e.g. SBATCH_PARTITION=short.
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
-usage() { echo "usage: $0 [--shards N] [--wait] [--axicore PATH] CASE OUT_DIR -- SWEEP_ARGS..." >&2; exit 2; }
-shards=4 wait=no axicore=${AXICORE:-}
+usage() { echo "usage: $0 [--shards N] [--cpus N] [--wait] [--axicore PATH] CASE OUT_DIR -- SWEEP_ARGS..." >&2; exit 2; }
+shards=4 cpus=1 wait=no axicore=${AXICORE:-}
 while [ $# -gt 0 ]; do
     case $1 in
         --shards) [ $# -ge 2 ] || usage; shards=$2; shift 2 ;;
+        --cpus) [ $# -ge 2 ] || usage; cpus=$2; shift 2 ;;
         --wait) wait=yes; shift ;;
         --axicore) [ $# -ge 2 ] || usage; axicore=$2; shift 2 ;;
         --help|-h) usage ;;
@@ -27,7 +29,9 @@ done
 [ $# -ge 2 ] || usage
 case_file=$1 out_dir=$2; shift 2
 if [ $# -gt 0 ]; then [ "$1" = -- ] || usage; shift; fi
-case $shards in ''|*[!0-9]*|0) echo "submit.sh: --shards must be a positive whole number, not '$shards'" >&2; exit 2 ;; esac
+for n in "--shards $shards" "--cpus $cpus"; do
+    case ${n#* } in ''|*[!0-9]*|0) echo "submit.sh: ${n% *} must be a positive whole number, not '${n#* }'" >&2; exit 2 ;; esac
+done
 [ -f "$case_file" ] || { echo "submit.sh: case file $case_file not found" >&2; exit 2; }
 if [ -z "$axicore" ]; then
     axicore=$(command -v axicore) || { echo "submit.sh: axicore is not on PATH; give --axicore PATH" >&2; exit 2; }
@@ -46,7 +50,7 @@ abs() { (cd "$(dirname "$1")" && printf '%s/%s\n' "$(pwd)" "$(basename "$1")"); 
 export AXICORE CASE OUT_DIR SWEEP_ARGS
 AXICORE=$(abs "$axicore") CASE=$(abs "$case_file") OUT_DIR=$(cd "$out_dir" && pwd)
 SWEEP_ARGS="$*"
-array=$(sbatch --parsable --export=ALL --array="1-$shards" \
+array=$(sbatch --parsable --export=ALL --array="1-$shards" --cpus-per-task="$cpus" \
     --output="$OUT_DIR/slurm-%A_%a.out" "$here/sweep-array.sbatch")
 array=${array%%;*} # --parsable prints "id;cluster" on multi-cluster set-ups
 echo "array $array"
