@@ -61,6 +61,8 @@ if [ "$wait" = yes ]; then
     # sbatch --wait prints the id only when the job ends; print it as soon as it is known.
     sbatch "${merge_opts[@]}" --wait "$here/sweep-merge.sbatch" > "$OUT_DIR/.merge-job" &
     pid=$!
+    trap 'kill "$pid" 2> /dev/null || true' EXIT # no waiting sbatch left behind if we are stopped
+    trap 'exit 143' TERM INT
     for _ in $(seq 50); do [ -s "$OUT_DIR/.merge-job" ] && break; sleep 0.1; done
     [ -s "$OUT_DIR/.merge-job" ] && echo "merge $(cut -d';' -f1 < "$OUT_DIR/.merge-job")"
     status=0; wait "$pid" || status=$?

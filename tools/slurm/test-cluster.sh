@@ -10,6 +10,7 @@
 # slurmctld and slurmd directly (no systemd) with every file — munge key copy and socket,
 # slurm.conf, state, spool, logs, pid files — under one temporary directory, and stops the
 # daemons it started, by their pid files, on every exit. Each wait has a time limit.
+# JOB_TIMEOUT=SECONDS bounds the wait for the jobs (default 120 for --selftest, 1800 for a sweep).
 # KEEP_LOGS=DIR keeps the daemons' logs, the generated slurm.conf and the job files there.
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
@@ -165,8 +166,9 @@ run_limited() {
     local status=0
     timeout "$limit" "$@" || status=$?
     if [ "$status" -eq 124 ]; then
+        local queue; queue=$(squeue -h -o '%i %T %r' 2>&1 | tr '\n' ';')
         scancel --user=root 2> /dev/null || true
-        die "jobs did not finish within $limit s (queue: $(squeue -h -o '%i %T %r' 2>&1 | tr '\n' ';'))"
+        die "jobs did not finish within $limit s (queue: $queue)"
     fi
     return "$status"
 }
@@ -190,7 +192,7 @@ JOB
     array=$(sbatch --parsable --export=ALL --array=1-4 --output="$work/slurm-%A_%a.out" "$work/task.sbatch") \
         || die "sbatch of the array job"
     say "array job $array submitted"
-    merge=$(run_limited 120 sbatch --parsable --export=ALL --wait --dependency="afterok:${array%%;*}" \
+    merge=$(run_limited "${JOB_TIMEOUT:-120}" sbatch --parsable --export=ALL --wait --dependency="afterok:${array%%;*}" \
         --kill-on-invalid-dep=yes --output="$work/slurm-%j-merge.out" "$work/merge.sbatch") \
         || die "the merge job failed"
     # sbatch --wait exits 0 for a job cancelled before it started (as a merge is when a task
@@ -206,7 +208,7 @@ JOB
 else
     work=$tmp/work/sweep
     mkdir -p "$work"
-    run_limited 1800 "$here/submit.sh" --wait --shards 4 --axicore "$axicore" "$case_file" "$work" -- "$@" \
+    run_limited "${JOB_TIMEOUT:-1800}" "$here/submit.sh" --wait --shards 4 --axicore "$axicore" "$case_file" "$work" -- "$@" \
         || die "the sharded sweep failed"
     say "sharded sweep done ($(elapsed)); unsharded reference run"
     "$axicore" sweep "$case_file" "$@" --out "$tmp/work/unsharded.csv" || die "the unsharded sweep failed"
