@@ -33,6 +33,7 @@ if [ $# -gt 0 ]; then [ "$1" = -- ] || usage; shift; fi
 for n in "--shards $shards" "--cpus $cpus"; do
     case ${n#* } in ''|*[!0-9]*|0) echo "submit.sh: ${n% *} must be a positive whole number, not '${n#* }'" >&2; exit 2 ;; esac
 done
+command -v sbatch > /dev/null || { echo "submit.sh: sbatch not found: run this where Slurm's client commands are" >&2; exit 2; }
 [ -f "$case_file" ] || { echo "submit.sh: case file $case_file not found" >&2; exit 2; }
 if [ -z "$axicore" ]; then
     axicore=$(command -v axicore) || { echo "submit.sh: axicore is not on PATH; give --axicore PATH" >&2; exit 2; }
