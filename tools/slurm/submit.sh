@@ -7,7 +7,8 @@
 # SWEEP_ARGS are the options of `axicore sweep` other than --shard and --out (--vary, --values,
 # --tolerance, --jobs). The merged table is OUT_DIR/sweep.csv, the shards OUT_DIR/shard-K.csv,
 # the job logs OUT_DIR/slurm-*.out. Prints "array JOBID" and "merge JOBID". With --wait it blocks
-# until the merge job ends and exits with its status (non-zero if a shard or the merge failed).
+# until the merge job ends and exits with its status: 0, 5 when the merged sweep has failed
+# points (as `axicore sweep` itself), other non-zero when a shard or the merge job failed.
 # --cpus N asks N CPUs for each shard (default 1): match the sweep's --jobs N.
 # Other sbatch settings (partition, account, time limit) come from sbatch's own SBATCH_*
 # environment variables, e.g. SBATCH_PARTITION=short.
@@ -32,6 +33,7 @@ if [ $# -gt 0 ]; then [ "$1" = -- ] || usage; shift; fi
 for n in "--shards $shards" "--cpus $cpus"; do
     case ${n#* } in ''|*[!0-9]*|0) echo "submit.sh: ${n% *} must be a positive whole number, not '${n#* }'" >&2; exit 2 ;; esac
 done
+command -v sbatch > /dev/null || { echo "submit.sh: sbatch not found: run this where Slurm's client commands are" >&2; exit 2; }
 [ -f "$case_file" ] || { echo "submit.sh: case file $case_file not found" >&2; exit 2; }
 if [ -z "$axicore" ]; then
     axicore=$(command -v axicore) || { echo "submit.sh: axicore is not on PATH; give --axicore PATH" >&2; exit 2; }
@@ -76,6 +78,12 @@ if [ "$wait" = yes ]; then
         exit $(( status != 0 ? status : 1 ))
     fi
     echo "merged $OUT_DIR/sweep.csv"
+    # The status column is "ok" or "failed: <message>" (quoted when the message has a comma).
+    failed=$(tail -n +3 "$OUT_DIR/sweep.csv" | grep -c -E '(^|,)"?failed: ' || true)
+    if [ "$failed" -gt 0 ]; then
+        echo "submit.sh: warning: $failed points failed (their rows in $OUT_DIR/sweep.csv say why); exit code 5" >&2
+        exit 5
+    fi
 else
     merge=$(sbatch "${merge_opts[@]}" "$here/sweep-merge.sbatch")
     echo "merge ${merge%%;*}"
