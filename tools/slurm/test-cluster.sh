@@ -60,7 +60,7 @@ say "slurm $(slurmctld -V | awk '{print $2}'), munge $(munged -V | awk '{print $
 # --- one temporary directory for everything -----------------------------------------------
 tmp=$(mktemp -d /tmp/axicore-slurm.XXXXXX)
 chmod 755 "$tmp"
-mkdir -p "$tmp/munge" "$tmp/state" "$tmp/spool" "$tmp/log" "$tmp/run" "$tmp/work"
+mkdir -p "$tmp/munge" "$tmp/state" "$tmp/spool" "$tmp/log" "$tmp/run" "$tmp/jobs"
 chmod 755 "$tmp/munge" # munged wants its socket directory searchable by all
 pids=("$tmp/run/slurmd.pid" "$tmp/run/slurmctld.pid" "$tmp/run/munged.pid")
 cleanup() {
@@ -77,12 +77,12 @@ cleanup() {
         for l in "$tmp"/log/*.log; do
             [ -s "$l" ] && { say "last lines of $(basename "$l"):"; tail -n 15 "$l" >&2; }
         done
-        for l in "$tmp"/work/*/slurm-*.out "$tmp"/work/slurm-*.out; do
+        for l in "$tmp"/jobs/*/slurm-*.out "$tmp"/jobs/slurm-*.out; do
             [ -s "$l" ] && { say "job log $(basename "$l"):"; tail -n 15 "$l" >&2; }
         done
     fi
     if [ -n "${KEEP_LOGS:-}" ]; then
-        mkdir -p "$KEEP_LOGS" && cp -r "$tmp/log" "$tmp/slurm.conf" "$tmp/work" "$KEEP_LOGS"/ 2> /dev/null
+        mkdir -p "$KEEP_LOGS" && cp -r "$tmp/log" "$tmp/slurm.conf" "$tmp/jobs" "$KEEP_LOGS"/ 2> /dev/null
     fi
     rm -rf "$tmp"
     exit "$status"
@@ -176,7 +176,7 @@ run_limited() {
 if [ "$mode" = selftest ]; then
     # A plain array of 4 tasks, one file each, and a merge that depends on it: the same job
     # shape as the sweep (1-based task ids, afterok dependency, sbatch --wait).
-    work=$tmp/work
+    work=$tmp/jobs
     cat > "$work/task.sbatch" << 'JOB'
 #!/usr/bin/env bash
 set -eu
@@ -206,7 +206,7 @@ JOB
     say "self-test passed: 4 array tasks and the dependent merge wrote the expected file ($(elapsed))"
     echo "1 passed, 0 failed"
 else
-    work=$tmp/work/sweep
+    work=$tmp/jobs/sweep
     mkdir -p "$work"
     # Exit code 5 (some points failed, their rows say why) is a finished sweep: accepted when the
     # sharded and the unsharded runs both give it, and their files are then compared as well.
@@ -216,10 +216,10 @@ else
     [ "$sharded" -eq 0 ] || [ "$sharded" -eq 5 ] || die "the sharded sweep failed (exit $sharded)"
     say "sharded sweep done, exit $sharded ($(elapsed)); unsharded reference run"
     unsharded=0
-    "$axicore" sweep "$case_file" "$@" --out "$tmp/work/unsharded.csv" || unsharded=$?
+    "$axicore" sweep "$case_file" "$@" --out "$tmp/jobs/unsharded.csv" || unsharded=$?
     [ "$unsharded" -eq 0 ] || [ "$unsharded" -eq 5 ] || die "the unsharded sweep failed (exit $unsharded)"
     [ "$sharded" -eq "$unsharded" ] || die "exit codes differ: sharded $sharded, unsharded $unsharded"
-    cmp "$tmp/work/unsharded.csv" "$work/sweep.csv" || die "merged CSV differs from the unsharded run"
+    cmp "$tmp/jobs/unsharded.csv" "$work/sweep.csv" || die "merged CSV differs from the unsharded run"
     say "sweep test passed: 4 shards merged on Slurm equal the unsharded run byte for byte ($(wc -l < "$work/sweep.csv") lines, $(elapsed))"
     echo "1 passed, 0 failed"
 fi
