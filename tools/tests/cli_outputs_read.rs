@@ -6,26 +6,12 @@
 //! common soft alloys (cobalt–iron ≈ 2.4 T, from memory, Bozorth 1951). The rest checks the
 //! program's own definitions (README).
 
-use std::path::PathBuf;
-use std::process::Command;
+mod common;
 
-fn axicore(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
-        .args(args)
-        .output()
-        .expect("run axicore");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
+use common::axicore;
 
-fn scratch(name: &str) -> PathBuf {
-    let dir = std::env::temp_dir().join(format!("axicore-read-{name}-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(&dir).unwrap();
-    dir
+fn scratch(name: &str) -> std::path::PathBuf {
+    common::scratch_dir("read", name)
 }
 
 /// The built-in example with its first `from` replaced by `to`, written to `dir/case.toml`.

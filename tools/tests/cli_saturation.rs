@@ -2,26 +2,12 @@
 //! line, no files); a solve that does not converge exits 3 and writes nothing; the material
 //! list and curves print. (Exit-code conventions: the README; common practice for CLI tools.)
 
-use std::path::PathBuf;
-use std::process::Command;
+mod common;
 
-fn axicore(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
-        .args(args)
-        .output()
-        .unwrap();
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).to_string(),
-        String::from_utf8_lossy(&out.stderr).to_string(),
-    )
-}
+use common::axicore;
 
-fn scratch(name: &str) -> PathBuf {
-    let dir = std::env::temp_dir().join(format!("axicore-sat-{name}-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(&dir).unwrap();
-    dir
+fn scratch(name: &str) -> std::path::PathBuf {
+    common::scratch_dir("sat", name)
 }
 
 fn case_with_law(law: &str) -> String {

@@ -3,26 +3,16 @@
 //! its message and its own exit code. No outside source: these are the engine's own promises
 //! (README, "Sweeps").
 
-use std::path::{Path, PathBuf};
-use std::process::Command;
+mod common;
 
-fn axicore(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_axicore"))
-        .args(args)
-        .output()
-        .expect("run axicore");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
+use std::path::{Path, PathBuf};
+
+use common::axicore;
+use std::process::Command;
 
 /// A scratch directory with the built-in example on a coarse mesh as `case.toml`.
 fn scratch(name: &str) -> PathBuf {
-    let dir = std::env::temp_dir().join(format!("axicore-sweep-{name}-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(&dir).unwrap();
+    let dir = common::scratch_dir("sweep", name);
     let (_, text, _) = axicore(&["example"]);
     let text = text.replacen("fineness = 1.0", "fineness = 0.4", 1);
     assert!(text.contains("fineness = 0.4"));
