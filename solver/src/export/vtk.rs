@@ -260,14 +260,7 @@ fn element_b_at_node(model: &Model, sol: &Solution, e: usize, node: u32) -> [f64
     let nodes = mesh.element_nodes(e);
     let k = nodes.iter().position(|&n| n == node).unwrap_or(0);
     // Barycentric coordinates of the corners and of the mid-edge nodes 0–1, 1–2, 2–0.
-    const AT: [[f64; 3]; 6] = [
-        [1.0, 0.0, 0.0],
-        [0.0, 1.0, 0.0],
-        [0.0, 0.0, 1.0],
-        [0.5, 0.5, 0.0],
-        [0.0, 0.5, 0.5],
-        [0.5, 0.0, 0.5],
-    ];
+    const AT: [[f64; 3]; 6] = crate::element::tri6::NODES;
     let g = &model.geometry()[e];
     let av = sol.element_values(model, e);
     let r = mesh.nodes[node as usize][0];
