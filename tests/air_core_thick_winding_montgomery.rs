@@ -15,6 +15,7 @@
 mod common;
 
 use axicore::pipeline::RunOptions;
+use axicore_formulas as reference;
 use common::{rel, solve};
 
 use common::THICK_COIL as COIL;

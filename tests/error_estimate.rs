@@ -13,6 +13,7 @@
 use axicore::accuracy::{run_to_tolerance, Caps, Refine};
 use axicore::case::parse_case;
 use axicore::pipeline::RunOptions;
+use axicore_formulas as reference;
 
 fn check(name: &str, toml: &str, exact: f64, tolerance: f64) {
     for refine in [Refine::Uniform, Refine::Adaptive] {

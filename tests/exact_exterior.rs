@@ -13,6 +13,7 @@
 mod common;
 
 use axicore::pipeline::RunOptions;
+use axicore_formulas as reference;
 use common::{rel, solve, THICK_COIL};
 
 fn with_surroundings(case: &str, radius_m: f64) -> String {

@@ -9,6 +9,7 @@
 mod common;
 
 use axicore::pipeline::RunOptions;
+use axicore_formulas as reference;
 use common::{arctan_rod, rel, solve};
 
 /// Asserts that the tail converges quadratically: some late step contracts like

@@ -10,6 +10,7 @@
 mod common;
 
 use axicore::pipeline::RunOptions;
+use axicore_formulas as reference;
 use common::{rel, solve};
 
 const JS: f64 = 1.5;

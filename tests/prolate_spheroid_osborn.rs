@@ -9,6 +9,7 @@
 mod common;
 
 use axicore::pipeline::RunOptions;
+use axicore_formulas as reference;
 use common::{rel, solve};
 
 #[test]

@@ -14,6 +14,7 @@
 
 use axicore::case::parse_case;
 use axicore::pipeline::discretise;
+use axicore_formulas as reference;
 use axicore_solver::export::region_points::RegionPoints;
 use axicore_solver::export::vtk::{field_grid, MapLabels};
 use axicore_solver::export::vtu::{DataArray, Values};

@@ -71,7 +71,7 @@ pub fn apparent(
         applied_h_avg,
         mu_app,
         ellipsoid_n,
-        ellipsoid_mu_app: mu_i / (1.0 + ellipsoid_n * (mu_i - 1.0)),
+        ellipsoid_mu_app: axicore_formulas::apparent_permeability(mu_i, ellipsoid_n),
         effective_n,
     })
 }
@@ -81,20 +81,11 @@ pub fn aspect_ratio(shape: &CoreShape) -> f64 {
     shape.half_length() / shape.radius()
 }
 
-/// Axial demagnetizing factor of a spheroid of axis ratio `m` = axial length / equatorial
+/// Axial demagnetizing factor of the spheroid of axis ratio `m` = axial length / equatorial
 /// diameter (Osborn 1945; Stoner, Phil. Mag. 36, 803, 1945): prolate for m > 1, oblate for
-/// m < 1, 1/3 for the sphere.
+/// m < 1, 1/3 for the sphere; the one implementation lives in `axicore_formulas`.
 pub fn ellipsoid_factor(m: f64) -> f64 {
-    if (m - 1.0).abs() < 1e-6 {
-        // Both branches lose digits next to the sphere; their common limit.
-        1.0 / 3.0
-    } else if m > 1.0 {
-        let s = (m * m - 1.0).sqrt();
-        (m / s * (m + s).ln() - 1.0) / (m * m - 1.0)
-    } else {
-        let s = (1.0 - m * m).sqrt();
-        (1.0 - m * m.acos() / s) / (1.0 - m * m)
-    }
+    axicore_formulas::ellipsoid_equal_ratio_n(m)
 }
 
 #[cfg(test)]

@@ -411,7 +411,7 @@ pub fn run_from(
             applied_h_average_A_per_m: apparent.map_or(0.0, |a| a.applied_h_avg),
             apparent_permeability: apparent.and_then(|a| a.mu_app),
             ellipsoid_demagnetizing_factor: n_ell,
-            ellipsoid_apparent_permeability: mu_i / (1.0 + n_ell * (mu_i - 1.0)),
+            ellipsoid_apparent_permeability: axicore_formulas::apparent_permeability(mu_i, n_ell),
             effective_demagnetizing_factor: apparent.and_then(|a| a.effective_n),
         }
     });

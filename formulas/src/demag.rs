@@ -1,4 +1,5 @@
-//! Demagnetizing factors of spheroids, ellipsoids and finite rods (sources: references.md §1–§2).
+//! Demagnetizing factors of spheroids, ellipsoids, finite rods and tubes, and the approximations
+//! users compare against (sources: references.md §1–§2).
 //!
 //! Input outside a formula's domain gives NaN, never a panic.
 
@@ -6,6 +7,10 @@ use std::f64::consts::PI;
 
 use crate::special::{integrate, k_minus_e, loop_kernel};
 use crate::{carlson_rd, elliptic_e};
+
+mod tube;
+
+pub use tube::{tube_nf_chi0, tube_nm_chi0};
 
 /// Axis ratios this close to 1 go through Carlson's R_D: the spheroid closed forms cancel there.
 const NEAR_SPHERE: f64 = 1e-2;
@@ -136,15 +141,37 @@ pub fn sato_ishii_n(gamma: f64) -> f64 {
     1.0 / (4.0 * gamma / PI.sqrt() + 1.0)
 }
 
-/// Rod demagnetizing factor N_d = 4[ln(l/r) − 1]/[(l/r)² − 4ln(l/r)] with l/r = 2γ, as quoted in a small-satellite torquer design report (Miller, Univ. of Michigan, 2013; references §1).
+/// Rod demagnetizing factor N_d = 4[ln(l/r) − 1]/[(l/r)² − 4ln(l/r)] with l/r = 2γ, from a small-satellite torquer design report (Miller, Univ. of Michigan, 2013; references §1).
 ///
+/// The same formula is eq. 2 of Li et al., J. Control Sci. Eng. 2013 [citation from memory].
 /// A slender-rod formula: NaN for l/r ≤ e (γ ≲ 1.36), where it would turn negative.
-pub fn rod_demag_log_approx(gamma: f64) -> f64 {
+pub fn miller_rod_n(gamma: f64) -> f64 {
     let lr = 2.0 * gamma;
     if lr.is_nan() || lr <= std::f64::consts::E || lr.is_infinite() {
         return f64::NAN;
     }
     4.0 * (lr.ln() - 1.0) / (lr * lr - 4.0 * lr.ln())
+}
+
+/// The range of slenderness 2 < γ < 20 over which the ferrite-rod fit `ferrite_rod_fit_n` is stated (references §1).
+pub const FERRITE_FIT_RANGE: (f64, f64) = (2.0, 20.0);
+
+/// Pettengill/Burhans ferrite-rod fit N = 0.37·γ^(−1.44), which tracks the high-χ fluxmetric factor (references §1).
+///
+/// Evaluated for any γ > 0 so that a study can show where it drifts; the range it is stated
+/// for is `FERRITE_FIT_RANGE`. NaN for γ ≤ 0.
+pub fn ferrite_rod_fit_n(gamma: f64) -> f64 {
+    if gamma.is_nan() || gamma <= 0.0 {
+        return f64::NAN;
+    }
+    0.37 * gamma.powf(-1.44)
+}
+
+/// Demagnetizing factor of the spheroid with the rod's axis ratio γ = L/D: Osborn 1945, the ellipsoid of equal axis ratio users substitute for a rod (references §1–§2).
+///
+/// Prolate for γ > 1, oblate for γ < 1, 1/3 at γ = 1, 1 for γ = 0; NaN for γ < 0.
+pub fn ellipsoid_equal_ratio_n(gamma: f64) -> f64 {
+    spheroid_demag_factor(gamma)
 }
 
 /// Slender prolate-spheroid limit N ≈ (ln 2γ − 1)/γ² for γ ≫ 1 (Osborn 1945, asymptotic form; references §1).
@@ -161,6 +188,19 @@ pub fn prolate_demag_slender(gamma: f64) -> f64 {
 /// [section numbers from memory] for the sphere, N = 1/3), as μapp = μ0⁻¹·B_in/H0.
 pub fn apparent_permeability(mu_r: f64, n: f64) -> f64 {
     mu_r / (1.0 + n * (mu_r - 1.0))
+}
+
+/// Apparent susceptibility χ/(1 + χN) of a body with demagnetizing factor N, the same relation as `apparent_permeability` in χ = μr − 1 (references §1).
+///
+/// NaN for N outside [0, 1] or χ < −1 (below a perfect diamagnet); χ → ∞ gives 1/N.
+pub fn apparent_susceptibility(chi: f64, n: f64) -> f64 {
+    if chi.is_nan() || chi < -1.0 || !(0.0..=1.0).contains(&n) {
+        return f64::NAN;
+    }
+    if chi.is_infinite() {
+        return 1.0 / n;
+    }
+    chi / (1.0 + chi * n)
 }
 
 #[cfg(test)]
@@ -323,10 +363,63 @@ mod tests {
         assert!((prolate_demag_slender(g) / prolate_demag_factor(g) - 1.0).abs() < 1e-5);
         // the report's formula is (ln 2γ − 1)/(γ² − ln 2γ): the slender prolate spheroid again,
         // within 1.5% of Osborn's factor at γ = 10 [computed] and converging as γ grows
-        let off = rod_demag_log_approx(10.0) / prolate_demag_factor(10.0) - 1.0;
+        let off = miller_rod_n(10.0) / prolate_demag_factor(10.0) - 1.0;
         assert!(off > 0.0 && off < 0.015, "{off}");
-        assert!((rod_demag_log_approx(g) / prolate_demag_factor(g) - 1.0).abs() < 1e-4);
-        assert!(rod_demag_log_approx(0.5).is_nan());
+        assert!((miller_rod_n(g) / prolate_demag_factor(g) - 1.0).abs() < 1e-4);
+        assert!(miller_rod_n(0.5).is_nan());
+    }
+
+    #[test]
+    fn ferrite_fit_is_its_power_law_over_any_positive_gamma() {
+        // references §1: N = 0.37·γ^(−1.44), stated for 2 < γ < 20 (Pettengill/Burhans)
+        assert_eq!(ferrite_rod_fit_n(1.0), 0.37);
+        let decade = (ferrite_rod_fit_n(20.0) / ferrite_rod_fit_n(2.0)).log10();
+        assert!((decade + 1.44).abs() < 1e-12, "{decade}");
+        assert_eq!(FERRITE_FIT_RANGE, (2.0, 20.0));
+        // evaluated outside the stated range too, for a study to show the drift
+        assert!(ferrite_rod_fit_n(100.0) > 0.0 && ferrite_rod_fit_n(0.5) > 0.37);
+        for bad in [0.0, -1.0, f64::NAN] {
+            assert!(ferrite_rod_fit_n(bad).is_nan());
+        }
+    }
+
+    #[test]
+    fn ellipsoid_of_equal_ratio_is_osborns_spheroid() {
+        // references.md §7 #7 and the §1 table's oblate entry (Osborn 1945)
+        assert_digits(ellipsoid_equal_ratio_n(2.0), "0.173564");
+        assert_digits(ellipsoid_equal_ratio_n(10.0), "0.0202859");
+        assert_digits(ellipsoid_equal_ratio_n(0.5), "0.527200");
+        assert_eq!(ellipsoid_equal_ratio_n(1.0), 1.0 / 3.0);
+        assert_eq!(ellipsoid_equal_ratio_n(0.0), 1.0);
+        assert_eq!(ellipsoid_equal_ratio_n(f64::INFINITY), 0.0);
+        assert!(
+            ellipsoid_equal_ratio_n(-1.0).is_nan() && ellipsoid_equal_ratio_n(f64::NAN).is_nan()
+        );
+    }
+
+    #[test]
+    fn apparent_susceptibility_matches_permeability_relation() {
+        // H_in = H0 − N·M (references §2) gives χapp = M/H0 = χ/(1 + χN) and
+        // μapp = B_in/(μ0H0) = 1 + (1 − N)·χapp, the apparent permeability of references §1
+        for (chi, n) in [
+            (999.0, 0.0202859),
+            (0.5, 1.0 / 3.0),
+            (1e4, 0.0),
+            (-0.5, 0.9),
+        ] {
+            let via_chi = 1.0 + (1.0 - n) * apparent_susceptibility(chi, n);
+            assert!((via_chi / apparent_permeability(1.0 + chi, n) - 1.0).abs() < 1e-13);
+        }
+        assert_eq!(apparent_susceptibility(f64::INFINITY, 0.25), 4.0);
+        for (chi, n) in [
+            (1.0, -0.1),
+            (1.0, 1.5),
+            (-2.0, 0.3),
+            (f64::NAN, 0.3),
+            (1.0, f64::NAN),
+        ] {
+            assert!(apparent_susceptibility(chi, n).is_nan(), "{chi} {n}");
+        }
     }
 
     #[test]

@@ -1,21 +1,24 @@
-//! Closed-form reference results for the axicore validation tests.
+//! Closed-form results with their published sources, shared by the validation tests (`tests/`)
+//! and the `axicore` program (its ellipsoid estimate and the demagnetization study).
 //!
 //! Pure functions in SI units (m, A, T, A/m, H, Wb/m), each citing the published formula it
-//! evaluates; the check values of `../shared/references.md (outside the repository)` §7 are asserted in the unit tests
-//! beside each function. Input outside a formula's domain returns NaN rather than panicking, so a
-//! comparison against it fails instead of aborting the test run.
+//! evaluates; the check values of `../shared/references.md` (outside the repository) §1 and §7
+//! are asserted in the unit tests beside each function. Input outside a formula's domain returns
+//! NaN rather than panicking, so a comparison against it fails instead of aborting a test run or
+//! a study.
 //!
 //! Modules: `special` (elliptic integrals via the `ellip` crate, J1, quadrature), `coils` (loops,
-//! solenoids, inductance), `demag` (demagnetizing factors), `magnetization` (bodies in a uniform
-//! field, B–H laws). Everything is re-exported at the crate root.
+//! solenoids, inductance), `demag` (demagnetizing factors of spheroids, rods and tubes, and the
+//! approximations users compare against), `magnetization` (bodies in a uniform field, B–H laws).
+//! Everything is re-exported at the crate root.
 
 #![deny(missing_docs)]
 #![forbid(unsafe_code)]
 
-mod coils;
-mod demag;
-mod magnetization;
-mod special;
+pub mod coils;
+pub mod demag;
+pub mod magnetization;
+pub mod special;
 
 pub use coils::{
     current_sheet_inductance, long_solenoid_h, loop_axial_field, loop_axial_field_centre,
@@ -24,9 +27,10 @@ pub use coils::{
     thick_winding_inductance_filaments, wheeler_coefficient,
 };
 pub use demag::{
-    apparent_permeability, ellipsoid_demag_factor, oblate_demag_factor, prolate_demag_factor,
-    prolate_demag_slender, rod_demag_log_approx, rod_nf_chi0, rod_nm_chi0, sato_ishii_n,
-    spheroid_demag_factor,
+    apparent_permeability, apparent_susceptibility, ellipsoid_demag_factor,
+    ellipsoid_equal_ratio_n, ferrite_rod_fit_n, miller_rod_n, oblate_demag_factor,
+    prolate_demag_factor, prolate_demag_slender, rod_nf_chi0, rod_nm_chi0, sato_ishii_n,
+    spheroid_demag_factor, tube_nf_chi0, tube_nm_chi0, FERRITE_FIT_RANGE,
 };
 pub use magnetization::{
     arctan_law_b, arctan_law_j, ellipsoid_dipole, nonlinear_ellipsoid_h_in, sphere_dipole,
