@@ -33,11 +33,13 @@ fn dual_of_the_moment_functional_reproduces_the_core_moment_from_the_load() {
         .unwrap()
         .expect("a magnetic core");
     let zero = vec![0.0; model.mesh().nodes.len()];
+    let no_magnets = vec![0.0; model.mesh().triangles.len()];
     let f = assembly::rhs(
         model.mesh(),
         model.geometry(),
         model.dofs(),
         &j,
+        &no_magnets,
         &zero,
         0.0,
         |_, _| 0.0,

@@ -55,15 +55,17 @@ pub fn matrix(
 }
 
 /// Right-hand side over the free unknowns: loads from current densities `j_elem` (A/m² per
-/// element), minus the coupling K_fc·a_c to the fixed nodal values `a_fixed` (per node, Wb/m),
-/// minus the magnetisation load of the uniform background `b0` (T):
-/// −∫ (ν − ν0) B0 · B(φ_a) dV, non-zero only in magnetic regions.
+/// element) and prescribed polarizations `j0_elem` (T per element, ∫ ν J0 B_z(φ_a) dV), minus
+/// the coupling K_fc·a_c to the fixed nodal values `a_fixed` (per node, Wb/m), minus the
+/// magnetisation load of the uniform background `b0` (T): −∫ (ν − ν0) B0 · B(φ_a) dV,
+/// non-zero only in magnetic regions.
 #[allow(clippy::too_many_arguments)]
 pub fn rhs(
     mesh: &FeMesh,
     geom: &[ElementGeometry],
     dofs: &DofMap,
     j_elem: &[f64],
+    j0_elem: &[f64],
     a_fixed: &[f64],
     b0: f64,
     nu: impl Fn(usize, usize) -> f64 + Sync,
@@ -74,6 +76,12 @@ pub fn rhs(
             let g = &geom[e];
             let nodes = mesh.element_nodes(e);
             let mut f = weak_form::load(g, j_elem[e]);
+            if j0_elem[e] != 0.0 {
+                let fm = weak_form::magnetization_load(g, |q| nu(e, q), j0_elem[e]);
+                for a in 0..g.nodes {
+                    f[a] += fm[a];
+                }
+            }
             if b0 != 0.0 {
                 let nu0 = 1.0 / crate::MU0;
                 for (iq, q) in g.qp.iter().enumerate() {

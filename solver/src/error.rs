@@ -38,6 +38,9 @@ pub enum SolverError {
     /// A material parameter is out of range.
     #[error("invalid material: {0}")]
     BadMaterial(String),
+    /// A region with a prescribed polarization has a saturating material.
+    #[error("a region with a prescribed polarization must have a linear material (its recoil permeability)")]
+    PolarizedNonlinear,
     /// Nothing is free to solve for.
     #[error("every node is fixed: nothing to solve")]
     NoUnknowns,

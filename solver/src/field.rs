@@ -4,7 +4,7 @@ use crate::element::{ElementGeometry, Local, MAX_NODES};
 use crate::locate::Locator;
 use crate::mesh::Point;
 use crate::solve::Model;
-use crate::{SolverError, MU0};
+use crate::SolverError;
 
 /// Barycentric tolerance for a point on an element's boundary.
 const INSIDE: f64 = 1e-9;
@@ -55,9 +55,10 @@ pub struct PointField {
     pub a: f64,
     /// (B_r, B_z) in T.
     pub b: [f64; 2],
-    /// (H_r, H_z) in A/m.
+    /// (H_r, H_z) in A/m: ν (B − J0 e_z), J0 a magnet's polarization (0 elsewhere).
     pub h: [f64; 2],
-    /// Relative permeability |B|/(μ0|H|) of the material there.
+    /// Secant relative permeability |B − J0 e_z|/(μ0|H|) of the material there (|B|/(μ0|H|)
+    /// outside magnets, the recoil permeability in one).
     pub mu_r: f64,
     /// Region tag of the evaluating triangle.
     pub tag: u32,
@@ -147,13 +148,13 @@ impl Solution {
         p: Point,
     ) -> Result<PointField, SolverError> {
         let (e, a, b) = self.b_recovered(model, locator, p)?;
-        let nu = model.material(e).nu(b[0].hypot(b[1]));
+        let props = model.element_props(e);
         Ok(PointField {
             at: p,
             a,
             b,
-            h: [nu * b[0], nu * b[1]],
-            mu_r: 1.0 / (MU0 * nu),
+            h: props.h(b),
+            mu_r: props.secant_mu_r(b),
             tag: model.mesh().tags[e],
         })
     }

@@ -3,12 +3,21 @@
 //! # The weak form
 //!
 //! With B = ∇ × (A_φ e_φ) the field components are
-//! B_r = −∂A/∂z and B_z = ∂A/∂r + A/r. Ampère's law ∇ × (ν B) = J_φ e_φ, tested with
-//! v e_φ and integrated over the full revolution (dV = 2π r dr dz), reads
+//! B_r = −∂A/∂z and B_z = ∂A/∂r + A/r. The law is H = ν (B − J0 e_z): ν the reluctivity
+//! (ν(|B|) for a saturating material) and J0 = μ0 M0 the prescribed polarization of a
+//! permanent magnet (zero elsewhere; a magnet's law is linear, B = μ0 μr H + J0 e_z with its
+//! recoil permeability μr). Ampère's law ∇ × H = J_φ e_φ, tested with v e_φ and integrated
+//! over the full revolution (dV = 2π r dr dz), reads
 //!
 //! ```text
-//!   ∫ ν(|B|²) [ B_r(A) B_r(v) + B_z(A) B_z(v) ] dV  =  ∫ J_φ v dV      for all v with v = 0 on Γ_D
+//!   ∫ ν [ B_r(A) B_r(v) + B_z(A) B_z(v) ] dV  =  ∫ J_φ v dV  +  ∫ ν J0 B_z(v) dV
+//!                                                                     for all v with v = 0 on Γ_D
 //! ```
+//!
+//! The magnet's term is the weak form of its equivalent surface current: J0 is uniform in a
+//! region, so ∇ × (ν J0 e_z) = 0 inside, and integrating by parts leaves the current
+//! K = (ν J0 e_z) × n on the region's boundary (K = M0 × n for μr = 1). As a volume integral it
+//! needs no surface quadrature and holds for any element shape.
 //!
 //! A = 0 on the axis r = 0 (symmetry) and A = A_D on the outer arc. Every integrand is bounded
 //! at the axis: the test functions that survive vanish there, so v/r stays finite and quadrature
@@ -62,8 +71,8 @@ pub use error::SolverError;
 pub use field::{PointField, Solution};
 pub use material::Material;
 pub use mesh::FeMesh;
-pub use nonlinear::{Excitation, NewtonReport, NewtonSettings};
-pub use problem::{Problem, RegionProps};
+pub use nonlinear::{NewtonReport, NewtonSettings};
+pub use problem::{Excitation, Problem, RegionProps};
 pub use solve::{LinearOperator, Model};
 
 /// Permeability of vacuum μ0 in H/m (the exact pre-2019 SI value 4π·10⁻⁷; the CODATA 2018

@@ -21,7 +21,8 @@ pub struct Apparent {
     pub b_avg: f64,
     /// ⟨H_app,z⟩ over the core volume (core replaced by vacuum), A/m.
     pub applied_h_avg: f64,
-    /// μ_app = ⟨B_z⟩ / (μ0 ⟨H_app,z⟩); None where the applied field averages to zero.
+    /// μ_app = ⟨B_z⟩ / (μ0 ⟨H_app,z⟩); None where the applied field averages to zero and for
+    /// a permanent-magnet core.
     pub mu_app: Option<f64>,
     /// Demagnetizing factor of the ellipsoid of the core's length/diameter (Osborn 1945).
     pub ellipsoid_n: f64,
@@ -59,7 +60,9 @@ pub fn apparent(
 ) -> Option<Apparent> {
     let core = case.core.as_ref()?;
     let b_avg = core_average_bz(model, sol);
-    let mu_app = (applied_h_avg != 0.0).then(|| b_avg / (MU0 * applied_h_avg));
+    // A magnet's ⟨B_z⟩ is mostly its own polarization's, not a response to the applied field.
+    let responds = applied_h_avg != 0.0 && core.magnetization.is_none();
+    let mu_app = responds.then(|| b_avg / (MU0 * applied_h_avg));
     let ellipsoid_n = ellipsoid_factor(aspect_ratio(&core.shape));
     let mu_i = core.material.initial_mu_r();
     let effective_n = match (mu_app, core.material.is_linear() && mu_i > 1.0) {

@@ -14,7 +14,8 @@ use crate::geometry::{self, winding_tag, CORE_TAG};
 /// Threshold for "saturated": |B| above this fraction of the saturation flux density.
 pub const SATURATED_FRACTION_OF_BSAT: f64 = 0.9;
 
-/// Solves the field for per-element currents `currents` and background `b0`: one linear solve
+/// Solves the field for per-element currents `currents` and background `b0`, with the model's
+/// own magnets (a permanent-magnet core is part of every operating point): one linear solve
 /// when every material is linear (with `op`), else Newton from `start` or the linear guess.
 pub fn solve_field(
     model: &Model,
@@ -38,14 +39,16 @@ pub fn solve_field_with_tangent<'m>(
     settings: &NewtonSettings,
 ) -> Result<(Solution, Option<NewtonReport>, Option<SpdFactor<'m>>), SolverError> {
     let fixed = model.fixed_values();
+    let polarizations = model.problem_polarizations();
+    let exc = Excitation {
+        currents,
+        polarizations: &polarizations,
+        a_fixed: &fixed,
+        b0,
+    };
     match op {
-        Some(op) => Ok((op.solve(currents, &fixed, b0), None, None)),
+        Some(op) => Ok((op.solve(exc), None, None)),
         None => {
-            let exc = Excitation {
-                currents,
-                a_fixed: &fixed,
-                b0,
-            };
             let (sol, rep, tangent) = model.solve_nonlinear_with_tangent(exc, start, settings)?;
             Ok((sol, Some(rep), tangent))
         }
@@ -86,10 +89,10 @@ pub struct Figures {
     pub core: f64,
     /// Moment of the winding currents, A·m².
     pub winding: f64,
-    /// Moment of the windings with the core ÷ in air (no background).
+    /// Moment of the windings with the core ÷ in air (no background, no magnet's own moment).
     pub gain: Option<f64>,
-    /// Flux linkage of each winding due to the windings alone (the background's share
-    /// removed), Wb; equal to `flux_linkage` without a background field.
+    /// Flux linkage of each winding due to the windings alone (the background's and a
+    /// magnet's share removed), Wb; equal to `flux_linkage` without either.
     pub own_flux_linkage: Vec<f64>,
     /// Flux linkage of each winding, Wb.
     pub flux_linkage: Vec<f64>,
@@ -140,7 +143,7 @@ pub fn figures(
         .map(|k| {
             let j = unit_currents(model, case, k);
             let s = match (op, &tangent) {
-                (Some(op), _) => op.solve(&j, &vec![0.0; model.mesh().nodes.len()], 0.0),
+                (Some(op), _) => op.current_response(&j),
                 (None, Some(t)) => model.tangent_response(t, &j),
                 (None, None) => unreachable!("either a linear operator or a tangent"),
             };
@@ -165,20 +168,24 @@ pub fn figures(
             .sum()
     });
 
+    // Without a background field or a magnet the windings are the only source, and the
+    // solved field is their own; else their share comes from the responses (linear) or a
+    // solve of the windings alone (saturating: such a model has no magnet, as a magnet's
+    // law is linear).
+    let own_field = case.background_b == 0.0 && !model.has_magnets();
     let mut own_alone = None;
     let gain = if winding == 0.0 {
         None
-    } else if case.background_b == 0.0 {
+    } else if own_field {
         Some(total / winding)
     } else if let Some(_op) = op {
         let with_core: f64 = responses
             .iter()
             .enumerate()
             .map(|(k, (j, s))| {
-                let m: f64 = dipole::source_moments(model, s, j)
-                    .iter()
-                    .map(|p| p.current + p.magnetization)
-                    .sum();
+                // The moment of a response field: (1/μ0 − ν) B in the core, without the
+                // magnet's constant ν J0 that `source_moments` adds for a whole field.
+                let m = dipole::incremental_moment(model, sol, s, j);
                 m * case.windings[k].current * scale
             })
             .sum();
@@ -193,7 +200,7 @@ pub fn figures(
         own_alone = Some(alone);
         Some(m / winding)
     };
-    let own_flux_linkage = if case.background_b == 0.0 {
+    let own_flux_linkage = if own_field {
         flux_linkage.clone()
     } else if let Some(alone) = &own_alone {
         (0..nw).map(|i| linkage(alone, i)).collect()

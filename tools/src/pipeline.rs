@@ -142,6 +142,7 @@ pub fn discretise_refined(
     let mut regions = vec![RegionProps::air(); 2 + case.windings.len()];
     if let Some(core) = &case.core {
         regions[CORE_TAG as usize].material = core.material.clone();
+        regions[CORE_TAG as usize].polarization = core.polarization();
     }
     for (k, w) in case.windings.iter().enumerate() {
         regions[winding_tag(k) as usize].current_density = w.current_density();
@@ -376,7 +377,9 @@ pub fn run_from(
         Some(_) if b0 != 0.0 => {
             crate::apparent::apparent(&model, case, &sol, b0 / axicore_solver::MU0)
         }
-        _ => None,
+        // Nothing applied (a magnet alone, or no current): ⟨B_z⟩ without a permeability.
+        Some(_) => crate::apparent::apparent(&model, case, &sol, 0.0),
+        None => None,
     };
     let core = case.core.as_ref().map(|c| {
         let centre_r = match c.shape {
@@ -394,6 +397,8 @@ pub fn run_from(
             material: c.material_name.clone(),
             initial_mu_r: mu_i,
             saturation_b_T: fig.b_sat,
+            prescribed_magnetization_A_per_m: c.magnetization,
+            recoil_mu_r: c.magnetization.map(|_| mu_i),
             volume_m3: flux::region_volume(&model, CORE_TAG),
             exact_volume_m3: c.shape.volume(),
             b_centre_T: centre[0].hypot(centre[1]),

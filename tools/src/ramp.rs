@@ -142,7 +142,7 @@ pub fn ramp_observed(
         .sum();
     let unit = operating_point::currents(&model, case, 1.0 / i_case);
     let response = match &op {
-        Some(op) => op.solve(&unit, &vec![0.0; model.mesh().nodes.len()], 0.0),
+        Some(op) => op.current_response(&unit),
         None => {
             let t = model.tangent_at(&sol0, &model.fixed_values())?;
             model.tangent_response(&t, &unit)
@@ -188,7 +188,7 @@ pub fn ramp_observed(
             saturated_fraction: fig.saturated_fraction,
             incremental_inductance_H: fig.incremental_inductance.first().map_or(0.0, |r| r[0]),
             secant_inductance_H: (case.background_b == 0.0)
-                .then(|| fig.flux_linkage.first().map_or(0.0, |p| p / current)),
+                .then(|| fig.own_flux_linkage.first().map_or(0.0, |p| p / current)),
             newton_iterations: newton.map_or(0, |n| n.iterations),
         });
         prev = Some(sol);

@@ -151,6 +151,65 @@ fn relative_permeability_below_one_is_refused() {
 }
 
 #[test]
+fn a_prescribed_magnetization_given_twice_or_with_a_saturating_material_is_refused() {
+    // A magnet's law is B = μ0 μr H + μ0 M0 e_z: one M0 (in A/m or as J0 = μ0 M0 in T), a
+    // linear recoil μr, |M0| ≤ 1e8 A/m (README, case-file reference).
+    let magnet = GOOD.replace(
+        "material = \"nickel-iron-80\"",
+        "magnetization = \"800 kA/m\"",
+    );
+    let linear = "a prescribed magnetization needs a linear core";
+    expect_fault(
+        "magnet-twice",
+        &magnet.replace("[[winding]]", "polarization = \"1 T\"\n[[winding]]"),
+        &["core.polarization", "not both"],
+    );
+    expect_fault(
+        "magnet-material",
+        &magnet.replace("[[winding]]", "material = \"pure-iron\"\n[[winding]]"),
+        &["core.material", linear, "mu_r"],
+    );
+    let law = "[core.law]\nkind = \"arctan\"\nsaturation = \"1.5 T\"\ninitial_mu_r = 1000\n";
+    expect_fault(
+        "magnet-law",
+        &magnet.replace("[[winding]]", &format!("{law}[[winding]]")),
+        &["core.law", linear],
+    );
+    let curve = "[core.bh_curve]\nh = [0, 100]\nb = [0, 1]\n";
+    expect_fault(
+        "magnet-curve",
+        &magnet.replace("[[winding]]", &format!("{curve}[[winding]]")),
+        &["core.bh_curve", linear],
+    );
+    expect_fault(
+        "magnet-huge",
+        &magnet.replace("800 kA/m", "2e8 A/m"),
+        &["core.magnetization", "1e8 A/m"],
+    );
+    expect_fault(
+        "magnet-huge-j",
+        &GOOD.replace("material = \"nickel-iron-80\"", "polarization = \"-300 T\""),
+        &["core.polarization", "1e8 A/m"],
+    );
+    expect_fault(
+        "magnet-recoil",
+        &magnet.replace("[[winding]]", "mu_r = 0.9\n[[winding]]"),
+        &["core.mu_r", "below 1"],
+    );
+    // Zero is a magnetization (a sweep may pass through it), but then nothing drives the field.
+    let alone = magnet
+        .split("[[winding]]")
+        .next()
+        .unwrap()
+        .replace("800 kA/m", "0 A/m");
+    expect_fault(
+        "magnet-zero",
+        &alone,
+        &["background.b_axial", "nothing drives the field"],
+    );
+}
+
+#[test]
 fn winding_overlapping_the_core_is_refused() {
     expect_fault(
         "overlap-core",

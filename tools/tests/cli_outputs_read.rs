@@ -95,6 +95,49 @@ fn forty_amperes_meant_as_forty_milliamperes_gets_a_current_density_caution() {
 }
 
 #[test]
+fn a_magnet_alone_reports_its_magnetization_and_no_figure_that_needs_a_drive() {
+    // A permanent-magnet core without winding or background is a case of its own; figures
+    // that need an applied field or a winding are null, never NaN (README, JSON keys).
+    let dir = scratch("magnet");
+    let case = dir.join("case.toml");
+    std::fs::write(
+        &case,
+        "[core]\nshape = \"rod\"\nlength = \"20 mm\"\ndiameter = \"10 mm\"\n\
+         polarization = \"-1.2 T\"\nmu_r = 1.05\n[mesh]\nfineness = 0.5\n",
+    )
+    .unwrap();
+    let case = case.to_str().unwrap();
+    let (code, out, err) = axicore(&["solve", case, "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let c = &v["core"];
+    let m0 = c["prescribed_magnetization_A_per_m"].as_f64().unwrap();
+    assert!((m0 + 1.2 / (4e-7 * std::f64::consts::PI)).abs() < 1e-9 * m0.abs());
+    assert_eq!(c["recoil_mu_r"].as_f64(), Some(1.05));
+    for key in [
+        "moment_gain",
+        "inductance_H",
+        "secant_inductance_H",
+        "flux_concentration",
+    ] {
+        assert!(v[key].is_null(), "{key}: {}", v[key]);
+    }
+    assert!(c["apparent_permeability"].is_null() && c["effective_demagnetizing_factor"].is_null());
+    // Magnetised along −z: a negative moment, and ⟨B_z⟩ between −J0 and 0.
+    assert!(v["dipole_moment_Am2"].as_f64().unwrap() < 0.0);
+    let b = c["average_b_z_T"].as_f64().unwrap();
+    assert!(b < 0.0 && b > -1.2, "{b}");
+    let (code, out, err) = axicore(&["solve", case]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("magnet    M0 = -954900 A/m along +z prescribed"),
+        "{out}"
+    );
+    assert!(!out.contains("NaN"), "{out}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
 fn a_linear_core_driven_past_any_real_material_gets_a_caution() {
     let dir = scratch("linear");
     let case = example_with(&dir, r#"material = "nickel-iron-80""#, "mu_r = 50000");

@@ -39,9 +39,17 @@ pub const POINT_ARRAYS: [(&str, &str, &str); 9] = [
     ("B_r_T", "T", "radial flux density B_r, recovered"),
     ("B_z_T", "T", "axial flux density B_z, recovered"),
     ("B_magnitude_T", "T", "|B|, recovered"),
-    ("H_A_per_m", "A/m", "field strength vector (H_r, H_z, 0) = nu(|B|) B"),
+    (
+        "H_A_per_m",
+        "A/m",
+        "field strength vector (H_r, H_z, 0) = nu (B - J0 e_z), J0 a magnet's polarization (0 elsewhere)",
+    ),
     ("H_magnitude_A_per_m", "A/m", "|H|"),
-    ("mu_r", "1", "secant relative permeability |B|/(mu0 |H|)"),
+    (
+        "mu_r",
+        "1",
+        "secant relative permeability |B - J0 e_z|/(mu0 |H|) (a magnet's recoil permeability)",
+    ),
     ("A_phi_Wb_per_m", "Wb/m", "azimuthal vector potential A_phi"),
     (
         "flux_function_Wb",
@@ -295,15 +303,15 @@ fn point_arrays(model: &Model, sol: &Solution, rp: &RegionPoints) -> Vec<DataArr
     let (mut h, mut hm, mut mu) = (vec![[0.0; 2]; np], vec![0.0; np], vec![0.0; np]);
     let (mut a, mut flux) = (vec![0.0; np], vec![0.0; np]);
     for p in 0..np {
-        let mat = &model.region(rp.tag[p]).material;
+        let props = model.region(rp.tag[p]);
         let mag = b[p][0].hypot(b[p][1]);
-        let nu = mat.nu(mag);
         let n = rp.node[p] as usize;
         br[p] = b[p][0];
         bz[p] = b[p][1];
         bm[p] = mag;
-        h[p] = [nu * b[p][0], nu * b[p][1]];
-        hm[p] = nu * mag;
+        let (bl, nu) = (props.law_b(b[p]), props.nu(b[p]));
+        h[p] = [nu * bl[0], nu * bl[1]];
+        hm[p] = nu * bl[0].hypot(bl[1]);
         mu[p] = 1.0 / (MU0 * nu);
         a[p] = a_nodal[n];
         flux[p] = 2.0 * std::f64::consts::PI * mesh.nodes[n][0] * a_nodal[n];
@@ -329,14 +337,12 @@ fn cell_arrays(model: &Model, sol: &Solution, j_elem: &[f64], saturated_at: f64)
     let (mut m, mut mu) = (vec![[0.0; 2]; ne], vec![0.0; ne]);
     let (mut ratio, mut flag) = (vec![0.0; ne], vec![0; ne]);
     for (e, be) in b.iter().enumerate() {
-        let mat = model.material(e);
+        let props = model.element_props(e);
         let mag = be[0].hypot(be[1]);
-        let nu = mat.nu(mag);
-        // M = B/μ0 − H = (1/μ0 − ν) B: exactly 0 where μr = 1.
-        let chi = 1.0 / MU0 - nu;
-        m[e] = [chi * be[0], chi * be[1]];
-        mu[e] = 1.0 / (MU0 * nu);
-        ratio[e] = mat.saturation_b().map_or(0.0, |bs| mag / bs);
+        // M = B/μ0 − H = (1/μ0 − ν) B + ν J0 e_z: exactly 0 in vacuum.
+        m[e] = props.magnetization(*be);
+        mu[e] = props.secant_mu_r(*be);
+        ratio[e] = props.material.saturation_b().map_or(0.0, |bs| mag / bs);
         flag[e] = i32::from(ratio[e] > saturated_at);
     }
     let [n_region, n_j, n_m, n_mu, n_ratio, n_flag] = CELL_ARRAYS.map(|x| x.0);

@@ -50,6 +50,7 @@ impl Model {
         let nv = first.mesh.nodes.len();
         let sub = Excitation {
             currents: exc.currents,
+            polarizations: exc.polarizations,
             a_fixed: &exc.a_fixed[..nv],
             b0: exc.b0,
         };
@@ -189,8 +190,8 @@ impl Model {
     }
 
     /// The field of currents `j_elem` and the background `b0` with every material replaced by
-    /// vacuum: the applied field a core sees (for its apparent permeability). One numeric
-    /// factorisation on the model's own pattern.
+    /// vacuum and no magnet: the applied field a core sees (for its apparent permeability).
+    /// One numeric factorisation on the model's own pattern.
     pub fn applied_field(&self, j_elem: &[f64], b0: f64) -> Result<Solution, SolverError> {
         let nu: Vec<Vec<f64>> = self
             .geom
@@ -198,8 +199,10 @@ impl Model {
             .map(|g| vec![1.0 / MU0; g.qp.len()])
             .collect();
         let a_fixed = self.fixed_values();
+        let no_magnets = vec![0.0; self.geom.len()];
         let exc = Excitation {
             currents: j_elem,
+            polarizations: &no_magnets,
             a_fixed: &a_fixed,
             b0,
         };
@@ -207,7 +210,8 @@ impl Model {
         Ok(Solution { a, b0 })
     }
 
-    /// The linear solve with every saturable material replaced by vacuum (linear ones kept).
+    /// The linear solve with every saturable material replaced by vacuum (linear ones, and
+    /// their polarizations, kept).
     fn vacuum_field(&self, exc: Excitation<'_>) -> Result<Vec<f64>, SolverError> {
         let nu: Vec<Vec<f64>> = (0..self.geom.len())
             .map(|e| {
@@ -249,6 +253,7 @@ impl Model {
             &self.geom,
             &self.dofs,
             exc.currents,
+            exc.polarizations,
             exc.a_fixed,
             exc.b0,
             nu,

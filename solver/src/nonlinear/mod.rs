@@ -21,6 +21,8 @@ mod terms;
 
 pub(crate) use terms::LinearElement;
 
+pub use crate::problem::Excitation;
+
 use crate::cholesky::SpdFactor;
 use crate::dofs::FIXED;
 use crate::field::Solution;
@@ -79,18 +81,6 @@ pub struct NewtonReport {
     pub update_history: Vec<f64>,
     /// Step length α of each iteration (1 for a full Newton step).
     pub step_lengths: Vec<f64>,
-}
-
-/// What drives the field: per-element current densities (A/m²), per-node Dirichlet values of
-/// the reaction part (Wb/m, read at fixed nodes) and the uniform background B_z (T).
-#[derive(Debug, Clone, Copy)]
-pub struct Excitation<'a> {
-    /// Current density per element, A/m².
-    pub currents: &'a [f64],
-    /// Dirichlet values per node, Wb/m.
-    pub a_fixed: &'a [f64],
-    /// Uniform background B_z, T.
-    pub b0: f64,
 }
 
 impl Model {
@@ -156,6 +146,7 @@ impl Model {
         let first = self.corner_model()?;
         let corners_exc = Excitation {
             currents: exc.currents,
+            polarizations: exc.polarizations,
             a_fixed: &exc.a_fixed[..first.mesh.nodes.len()],
             b0: exc.b0,
         };
@@ -210,9 +201,10 @@ impl Model {
         sol: &Solution,
         a_fixed: &[f64],
     ) -> Result<SpdFactor<'_>, SolverError> {
-        let currents = vec![0.0; self.mesh.triangles.len()];
+        let zero = vec![0.0; self.mesh.triangles.len()];
         let exc = Excitation {
-            currents: &currents,
+            currents: &zero,
+            polarizations: &zero,
             a_fixed,
             b0: sol.b0,
         };
@@ -223,11 +215,13 @@ impl Model {
     /// (A/m² per element), with zero Dirichlet data and no background: the incremental field.
     pub fn tangent_response(&self, factor: &SpdFactor<'_>, currents: &[f64]) -> Solution {
         let zero = vec![0.0; self.mesh.nodes.len()];
+        let no_magnets = vec![0.0; self.mesh.triangles.len()];
         let mut x = assembly::rhs(
             &self.mesh,
             &self.geom,
             &self.dofs,
             currents,
+            &no_magnets,
             &zero,
             0.0,
             |_, _| 0.0,

@@ -40,17 +40,19 @@ impl Model {
             ae[k] = a[v as usize];
         }
         match &self.linear_parts()[e] {
-            // Linear elements (most of the air): R = K a + (ν − ν0) B0 ∫B_z(φ) − f,
-            // T = K, with K precomputed — the same integrals, evaluated once.
+            // Linear elements (most of the air, and magnets):
+            // R = K a + [(ν − ν0) B0 − ν J0] ∫B_z(φ) − f, T = K, with K precomputed — the same
+            // integrals, evaluated once.
             Some(lin) => {
                 let f = weak_form::load(g, exc.currents[e]);
+                let shift = lin.dnu * exc.b0 - lin.nu * exc.polarizations[e];
                 let mut r = [0.0; MAX_NODES];
                 for k in 0..g.nodes {
                     let mut s = 0.0;
                     for l in 0..g.nodes {
                         s += lin.k[k][l] * ae[l];
                     }
-                    r[k] = s + lin.dnu * exc.b0 * lin.curl_z[k] - f[k];
+                    r[k] = s + shift * lin.curl_z[k] - f[k];
                 }
                 (r, lin.k)
             }
@@ -59,6 +61,7 @@ impl Model {
                 &ae,
                 exc.b0,
                 exc.currents[e],
+                exc.polarizations[e],
                 self.material(e),
                 tangent,
             ),
@@ -96,6 +99,7 @@ impl Model {
                     Some(LinearElement {
                         k: weak_form::stiffness(g, |_| nu),
                         curl_z,
+                        nu,
                         dnu: nu - 1.0 / crate::MU0,
                     })
                 })
@@ -152,6 +156,8 @@ pub(crate) struct LinearElement {
     k: LocalMatrix,
     /// ∫ B_z(φ_a) dV.
     curl_z: Local,
+    /// ν.
+    nu: f64,
     /// ν − ν0.
     dnu: f64,
 }

@@ -3,6 +3,8 @@
 //! 1. **Sources**: m = ∫ (r/2) J_φ dV + ∫ M_z dV, the moment of the currents plus the moment
 //!    of the magnetisation M = B/μ0 − H (Jackson, *Classical Electrodynamics*, 3rd ed., eq. 5.54
 //!    and §5.8–5.9 for magnetised matter). With dV = 2πr dA the current part is ∫ π r² J dA.
+//!    H = ν (B − J0 e_z) includes a magnet's polarization J0, so a magnet of recoil
+//!    permeability 1 contributes exactly (J0/μ0)·V, whatever the field.
 //! 2. **Field**: for all sources inside a ball of radius R_s, ∫_ball B dV = (2/3) μ0 m (Jackson
 //!    §5.6, eq. 5.62). The ball integral of B_z reduces to a line integral of A on its surface:
 //!    ∫_ball B_z dV = 2π R_s² ∫_0^π A(R_s sinθ, R_s cosθ) sin²θ dθ. A uniform background field
@@ -32,13 +34,12 @@ pub fn source_moments(model: &Model, sol: &Solution, j_elem: &[f64]) -> Vec<Regi
     let mut out = vec![RegionMoment::default(); mesh.tag_count()];
     for (e, g) in model.geometry().iter().enumerate() {
         let tag = mesh.tags[e] as usize;
-        let mat = model.material(e);
+        let props = model.element_props(e);
         let (mut mc, mut mm) = (0.0, 0.0);
         for q in &g.qp {
             mc += 0.5 * q.r * j_elem[e] * q.dv; // (r/2) J dV
             let b = sol.b_q(model, e, q);
-            let nu = mat.nu(b[0].hypot(b[1]));
-            mm += (1.0 / MU0 - nu) * b[1] * q.dv; // M_z dV
+            mm += props.magnetization(b)[1] * q.dv; // M_z dV = (B_z/μ0 − H_z) dV
         }
         out[tag].current += mc;
         out[tag].magnetization += mm;
@@ -48,17 +49,19 @@ pub fn source_moments(model: &Model, sol: &Solution, j_elem: &[f64]) -> Vec<Regi
 
 /// Small-signal moment dm of a linearised response `delta` (fields per unit of the driving
 /// currents `j_elem`, A/m²) about the operating point `at`: dM = dB/μ0 − dH with the
-/// differential law dH = ν dB + (ν_d − ν)(b̂·dB) b̂ at the operating field B = |B| b̂.
+/// differential law dH = ν dB + (ν_d − ν)(b̂·dB) b̂ at the operating field B' = |B'| b̂,
+/// B' = B − J0 e_z (a magnet's constant J0 drops out of dH; its law is linear anyway).
 pub fn incremental_moment(model: &Model, at: &Solution, delta: &Solution, j_elem: &[f64]) -> f64 {
     let mut m = 0.0;
     for (e, g) in model.geometry().iter().enumerate() {
-        let mat = model.material(e);
+        let props = model.element_props(e);
+        let mat = &props.material;
         for q in &g.qp {
             m += 0.5 * q.r * j_elem[e] * q.dv;
             if !mat.is_magnetic() {
                 continue;
             }
-            let b = at.b_q(model, e, q);
+            let b = props.law_b(at.b_q(model, e, q));
             let db = delta.b_q(model, e, q);
             let bm = b[0].hypot(b[1]);
             let nu = mat.nu(bm);

@@ -1,5 +1,7 @@
 //! The core's material in a case file: a built-in name, a linear `mu_r`, a B–H table
-//! (`[core.bh_curve]`, inline or CSV) or an analytic law (`[core.law]`), each fault at its key.
+//! (`[core.bh_curve]`, inline or CSV) or an analytic law (`[core.law]`), or a permanent
+//! magnet's prescribed `magnetization` (or `polarization`) with its recoil `mu_r`; each fault
+//! at its key.
 
 use std::path::Path;
 use std::sync::Arc;
@@ -8,7 +10,7 @@ use axicore_solver::material::{
     check_bh_points, BhColumn, BhTable, BhTableFault, Brauer, SaturationLaw, MAX_MU_R,
     MIN_SATURATION,
 };
-use axicore_solver::Material;
+use axicore_solver::{Material, MU0};
 
 use super::materials;
 use super::read::read_text;
@@ -16,13 +18,71 @@ use super::section::{hint, Section};
 use super::CaseError;
 use crate::units::Dimension;
 
+/// Largest prescribed magnetization |M0| of a permanent-magnet core, A/m. The strongest
+/// magnets (sintered NdFeB, remanence about 1.4 T) reach about 1.1e6 A/m (typical value, from
+/// memory); the bound leaves two decades for studies and keeps J0 = μ0 M0 below about 126 T,
+/// well inside the supported flux densities (1 kT).
+pub const MAX_MAGNETIZATION: f64 = 1e8;
+
+/// What to write when a magnet is given a material other than a linear `mu_r`.
+const MAGNET_NEEDS_LINEAR: &str =
+    "a prescribed magnetization needs a linear core: give mu_r (the recoil permeability) or nothing";
+
+/// The prescribed magnetization M0 of a permanent-magnet core in A/m: `magnetization` (a
+/// field strength) or `polarization` (J0 = μ0 M0, a flux density), at most one; None for a
+/// soft core.
+pub(super) fn parse_magnetization(s: &Section) -> Result<Option<f64>, CaseError> {
+    let m = s.quantity("magnetization", Dimension::FieldStrength)?;
+    let j = s.quantity("polarization", Dimension::FluxDensity)?;
+    let (key, m0) = match (m, j) {
+        (None, None) => return Ok(None),
+        (Some(_), Some(_)) => {
+            return Err(s.fault(
+                "polarization",
+                "give either magnetization (A/m) or polarization (T), not both",
+            ))
+        }
+        (Some(m), None) => ("magnetization", m),
+        (None, Some(j)) => ("polarization", j / MU0),
+    };
+    if m0.abs() > MAX_MAGNETIZATION {
+        let what = if key == "magnetization" {
+            format!("{m0:e} A/m")
+        } else {
+            format!("{:e} T (M0 = {m0:.4e} A/m)", m0 * MU0)
+        };
+        return Err(s.fault(
+            key,
+            &format!("{what} is above the supported |M0| ≤ {MAX_MAGNETIZATION:e} A/m"),
+        ));
+    }
+    Ok(Some(m0))
+}
+
 /// Exactly one of: `material` (built-in name), `mu_r` (linear), `[core.bh_curve]` (table),
-/// `[core.law]` (analytic law).
-pub(super) fn parse_core_material(s: &Section) -> Result<(String, Material), CaseError> {
+/// `[core.law]` (analytic law); for a permanent magnet (`magnet`) `mu_r`, the recoil
+/// permeability, or nothing (1).
+pub(super) fn parse_core_material(
+    s: &Section,
+    magnet: bool,
+) -> Result<(String, Material), CaseError> {
     let given: Vec<&str> = ["material", "mu_r", "bh_curve", "law"]
         .into_iter()
         .filter(|k| s.table.contains_key(*k))
         .collect();
+    if magnet {
+        if let Some(other) = given.iter().find(|k| **k != "mu_r") {
+            return Err(s.fault(other, MAGNET_NEEDS_LINEAR));
+        }
+        let mu_r = match s.quantity("mu_r", Dimension::Dimensionless)? {
+            Some(mu) => linear_mu_r(s, mu)?,
+            None => 1.0,
+        };
+        return Ok((
+            format!("permanent magnet, recoil μr = {mu_r}"),
+            Material::Linear { mu_r },
+        ));
+    }
     match given.as_slice() {
         [] => Err(s.fault(
             "material",
@@ -37,13 +97,7 @@ pub(super) fn parse_core_material(s: &Section) -> Result<(String, Material), Cas
         )),
         ["mu_r"] => {
             let mu_r = s.quantity("mu_r", Dimension::Dimensionless)?.unwrap_or(1.0);
-            check_mu_r(s, "mu_r", mu_r)?;
-            if mu_r < 1.0 {
-                return Err(s.fault(
-                    "mu_r",
-                    &format!("relative permeability {mu_r} is below 1 (not a ferromagnetic or paramagnetic core)"),
-                ));
-            }
+            let mu_r = linear_mu_r(s, mu_r)?;
             Ok((format!("linear, μr = {mu_r}"), Material::Linear { mu_r }))
         }
         ["material"] => {
@@ -139,6 +193,20 @@ fn table_fault(t: &Section, f: &BhTableFault, lines: Option<&[usize]>) -> CaseEr
             t.fault("file", &format!("{}: {place}{}", path.display(), f.message))
         }
     }
+}
+
+/// A linear core's `mu_r`, from 1 to the materials' bound.
+fn linear_mu_r(s: &Section, mu_r: f64) -> Result<f64, CaseError> {
+    check_mu_r(s, "mu_r", mu_r)?;
+    if mu_r < 1.0 {
+        return Err(s.fault(
+            "mu_r",
+            &format!(
+                "relative permeability {mu_r} is below 1 (not a ferromagnetic or paramagnetic core)"
+            ),
+        ));
+    }
+    Ok(mu_r)
 }
 
 /// Rejects a relative permeability above the materials' bound, naming the key (the law's own

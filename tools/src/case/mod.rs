@@ -86,8 +86,19 @@ pub struct Core {
     pub centre: f64,
     /// Material name as given, or what kind of custom law it is.
     pub material_name: String,
-    /// The magnetic law of the core (linear or saturating).
+    /// The magnetic law of the core (linear or saturating); for a permanent magnet the linear
+    /// recoil law.
     pub material: axicore_solver::Material,
+    /// Prescribed uniform axial magnetization M0 of a permanent-magnet core, A/m (negative:
+    /// along −z); None for a soft core. The law is then B = μ0 μr H + μ0 M0 e_z.
+    pub magnetization: Option<f64>,
+}
+
+impl Core {
+    /// The prescribed polarization J0 = μ0 M0 along +z, T (0 for a soft core).
+    pub fn polarization(&self) -> f64 {
+        self.magnetization.map_or(0.0, |m| axicore_solver::MU0 * m)
+    }
 }
 
 /// Core shapes, all dimensions in m.

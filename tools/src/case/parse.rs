@@ -10,7 +10,7 @@ use axicore_solver::NewtonSettings;
 
 use toml::{Table, Value};
 
-use super::core_material::parse_core_material;
+use super::core_material::{parse_core_material, parse_magnetization};
 use super::section::{hint, Section};
 use super::validate::validate;
 use super::{Case, CaseError, Core, CoreShape, Edge, MeshControls, Winding};
@@ -167,7 +167,16 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
     let shape_name = s
         .string("shape")?
         .ok_or_else(|| s.fault("shape", "missing (rod, tube, sphere or spheroid)"))?;
-    let common = ["shape", "centre", "material", "mu_r", "bh_curve", "law"];
+    let common = [
+        "shape",
+        "centre",
+        "material",
+        "mu_r",
+        "bh_curve",
+        "law",
+        "magnetization",
+        "polarization",
+    ];
     let with = |extra: &[&'static str]| -> Vec<&'static str> {
         common
             .iter()
@@ -233,12 +242,14 @@ fn parse_core(s: &Section) -> Result<Core, CaseError> {
         }
     }
     let centre = s.quantity("centre", Dimension::Length)?.unwrap_or(0.0);
-    let (material_name, material) = parse_core_material(s)?;
+    let magnetization = parse_magnetization(s)?;
+    let (material_name, material) = parse_core_material(s, magnetization.is_some())?;
     Ok(Core {
         shape,
         centre,
         material_name,
         material,
+        magnetization,
     })
 }
 

@@ -60,10 +60,12 @@ pub(super) fn validate(case: &Case, file: &str) -> Result<(), CaseError> {
             "the case has neither a core nor a winding: nothing to solve".into(),
         ));
     }
-    if case.windings.is_empty() && case.background_b == 0.0 {
+    let magnet = case.core.as_ref().is_some_and(|c| c.polarization() != 0.0);
+    if case.windings.is_empty() && case.background_b == 0.0 && !magnet {
         return Err(fault(
             "background.b_axial".into(),
-            "no winding and no background field: nothing drives the field".into(),
+            "no winding, no background field and no core magnetization: nothing drives the field"
+                .into(),
         ));
     }
     if let Some(core) = &case.core {

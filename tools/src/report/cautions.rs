@@ -32,7 +32,13 @@ pub fn case_cautions(
     }
     if let (Some(c), Some(core_case)) = (core, &case.core) {
         let peak = c.max_b_T.unwrap_or(c.b_centre_T);
-        if core_case.material.is_linear() && c.initial_mu_r > 1.0 && peak > LINEAR_CORE_CAUTION_T {
+        // (A permanent magnet's linear law is its recoil line, not a soft core's idealisation.)
+        let soft = core_case.magnetization.is_none();
+        if soft
+            && core_case.material.is_linear()
+            && c.initial_mu_r > 1.0
+            && peak > LINEAR_CORE_CAUTION_T
+        {
             out.push(format!(
                 "core: a linear core (constant μr) at a peak |B| of {peak:.3} T, beyond what any soft magnetic material carries ({LINEAR_CORE_CAUTION_T} T): give the core a saturating law (material, law or bh_curve)"
             ));

@@ -64,7 +64,8 @@ pub struct Report {
     pub residual_history: Option<Vec<f64>>,
     /// Incremental inductance matrix, H (row i, column k: dΨ_i/dI_k).
     pub inductance_matrix_H: Option<Vec<Vec<f64>>>,
-    /// Stored field energy, J.
+    /// Stored field energy ∫ (∫ H·dB) dV from each law's zero-field state (B = J0 in a magnet;
+    /// `axicore_solver::post::energy`), J.
     pub energy_J: f64,
     /// Peak element-mean |B| in the core away from its sharp corners, T.
     pub max_core_b_T: Option<f64>,
@@ -120,6 +121,11 @@ pub struct CoreReport {
     pub initial_mu_r: f64,
     /// Saturation flux density of the law (limit of B − μ0 H), T; None if linear.
     pub saturation_b_T: Option<f64>,
+    /// Prescribed uniform axial magnetization M0 of a permanent-magnet core, A/m (None for a
+    /// soft core).
+    pub prescribed_magnetization_A_per_m: Option<f64>,
+    /// Recoil relative permeability of a permanent-magnet core (None for a soft core).
+    pub recoil_mu_r: Option<f64>,
     /// Meshed volume, m³.
     pub volume_m3: f64,
     /// Exact volume of the shape, m³.
@@ -144,7 +150,8 @@ pub struct CoreReport {
     pub average_b_z_T: f64,
     /// ⟨H_z⟩ of the applied field (core replaced by vacuum) over the core volume, A/m.
     pub applied_h_average_A_per_m: f64,
-    /// Apparent permeability ⟨B_z⟩/(μ0 ⟨H_app,z⟩) from the field solution.
+    /// Apparent permeability ⟨B_z⟩/(μ0 ⟨H_app,z⟩) from the field solution; None without an
+    /// applied field or for a permanent-magnet core (its ⟨B_z⟩ is mostly its own).
     pub apparent_permeability: Option<f64>,
     /// Demagnetizing factor of the ellipsoid of the same length/diameter (Osborn 1945).
     pub ellipsoid_demagnetizing_factor: f64,

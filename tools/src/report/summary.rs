@@ -30,6 +30,15 @@ pub fn summary(r: &Report, show_timings: bool, digits: usize) -> String {
             c.saturation_b_T
                 .map_or(String::new(), |b| format!(", saturation {} T", input(b)))
         );
+        if let (Some(m), Some(mu)) = (c.prescribed_magnetization_A_per_m, c.recoil_mu_r) {
+            let _ = writeln!(
+                s,
+                "magnet    M0 = {} A/m along +z prescribed (J0 = μ0 M0 = {} T), recoil μr = {}",
+                sig(m, d),
+                sig(axicore_solver::MU0 * m, d),
+                input(mu)
+            );
+        }
     } else {
         let _ = writeln!(s, "core      none (air-core)");
     }
