@@ -18,6 +18,7 @@
 
 mod common;
 
+use axicore_formulas as reference;
 use std::f64::consts::PI;
 
 use axicore::case::parse_case;

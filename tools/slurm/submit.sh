@@ -10,31 +10,41 @@
 # until the merge job ends and exits with its status: 0, 5 when the merged sweep has failed
 # points (as `axicore sweep` itself), other non-zero when a shard or the merge job failed.
 # --cpus N asks N CPUs for each shard (default 1): match the sweep's --jobs N.
+# --demag shards the demagnetization study instead (no CASE; DEMAG_ARGS are the options of
+# `axicore demag` other than --shard and --out: --gamma, --chi, --bore, --tolerance, --jobs);
+# render the merged OUT_DIR/sweep.csv with `axicore demag --from OUT_DIR/sweep.csv --plots DIR`.
 # Other sbatch settings (partition, account, time limit) come from sbatch's own SBATCH_*
 # environment variables, e.g. SBATCH_PARTITION=short.
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
-usage() { echo "usage: $0 [--shards N] [--cpus N] [--wait] [--axicore PATH] CASE OUT_DIR -- SWEEP_ARGS..." >&2; exit 2; }
-shards=4 cpus=1 wait=no axicore=${AXICORE:-}
+usage() { echo "usage: $0 [--shards N] [--cpus N] [--wait] [--axicore PATH] CASE OUT_DIR -- SWEEP_ARGS...  or  $0 --demag [options] OUT_DIR -- DEMAG_ARGS..." >&2; exit 2; }
+shards=4 cpus=1 wait=no axicore=${AXICORE:-} study=sweep
 while [ $# -gt 0 ]; do
     case $1 in
         --shards) [ $# -ge 2 ] || usage; shards=$2; shift 2 ;;
         --cpus) [ $# -ge 2 ] || usage; cpus=$2; shift 2 ;;
         --wait) wait=yes; shift ;;
+        --demag) study=demag; shift ;;
         --axicore) [ $# -ge 2 ] || usage; axicore=$2; shift 2 ;;
         --help|-h) usage ;;
         -*) echo "submit.sh: unknown option $1" >&2; usage ;;
         *) break ;;
     esac
 done
-[ $# -ge 2 ] || usage
-case_file=$1 out_dir=$2; shift 2
+if [ "$study" = demag ]; then
+    # The demagnetization study builds its own cases from its grid options.
+    [ $# -ge 1 ] || usage
+    case_file= out_dir=$1; shift
+else
+    [ $# -ge 2 ] || usage
+    case_file=$1 out_dir=$2; shift 2
+fi
 if [ $# -gt 0 ]; then [ "$1" = -- ] || usage; shift; fi
 for n in "--shards $shards" "--cpus $cpus"; do
     case ${n#* } in ''|*[!0-9]*|0) echo "submit.sh: ${n% *} must be a positive whole number, not '${n#* }'" >&2; exit 2 ;; esac
 done
 command -v sbatch > /dev/null || { echo "submit.sh: sbatch not found: run this where Slurm's client commands are" >&2; exit 2; }
-[ -f "$case_file" ] || { echo "submit.sh: case file $case_file not found" >&2; exit 2; }
+[ "$study" = demag ] || [ -f "$case_file" ] || { echo "submit.sh: case file $case_file not found" >&2; exit 2; }
 if [ -z "$axicore" ]; then
     axicore=$(command -v axicore) || { echo "submit.sh: axicore is not on PATH; give --axicore PATH" >&2; exit 2; }
 fi
@@ -49,8 +59,9 @@ rm -f "$out_dir"/shard-*.csv "$out_dir"/sweep.csv
 abs() { (cd "$(dirname "$1")" && printf '%s/%s\n' "$(pwd)" "$(basename "$1")"); }
 # Passed through the environment, not --export=NAME=VALUE: sweep options such as
 # --values KEY=a,b,c hold commas, which --export would split.
-export AXICORE CASE OUT_DIR SWEEP_ARGS
-AXICORE=$(abs "$axicore") CASE=$(abs "$case_file") OUT_DIR=$(cd "$out_dir" && pwd)
+export AXICORE CASE OUT_DIR SWEEP_ARGS STUDY
+AXICORE=$(abs "$axicore") OUT_DIR=$(cd "$out_dir" && pwd) STUDY=$study
+CASE=${case_file:+$(abs "$case_file")}
 SWEEP_ARGS="$*"
 array=$(sbatch --parsable --export=ALL --array="1-$shards" --cpus-per-task="$cpus" \
     --output="$OUT_DIR/slurm-%A_%a.out" "$here/sweep-array.sbatch")

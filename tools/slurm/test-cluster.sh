@@ -11,6 +11,8 @@
 # slurm.conf, state, spool, logs, pid files — under one temporary directory, and stops the
 # daemons it started, by their pid files, on every exit. Each wait has a time limit.
 # JOB_TIMEOUT=SECONDS bounds the wait for the jobs (default 120 for --selftest, 1800 for a sweep).
+# DEMAG_ARGS="…" (with a sweep) also runs the demagnetization study with these options in 4
+# shards (submit.sh --demag) and compares the merge with the unsharded study.
 # KEEP_LOGS=DIR keeps the daemons' logs, the generated slurm.conf and the job files there.
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
@@ -221,5 +223,18 @@ else
     [ "$sharded" -eq "$unsharded" ] || die "exit codes differ: sharded $sharded, unsharded $unsharded"
     cmp "$tmp/jobs/unsharded.csv" "$work/sweep.csv" || die "merged CSV differs from the unsharded run"
     say "sweep test passed: 4 shards merged on Slurm equal the unsharded run byte for byte ($(wc -l < "$work/sweep.csv") lines, $(elapsed))"
+    if [ -n "${DEMAG_ARGS:-}" ]; then
+        # The demagnetization study on the same cluster: 4 shards through submit.sh --demag,
+        # merged, against the unsharded study.
+        dwork=$tmp/jobs/demag
+        # shellcheck disable=SC2086
+        run_limited "${JOB_TIMEOUT:-1800}" "$here/submit.sh" --demag --wait --shards 4 --axicore "$axicore" "$dwork" -- $DEMAG_ARGS \
+            || die "the sharded demagnetization study failed"
+        # shellcheck disable=SC2086
+        "$axicore" demag $DEMAG_ARGS --out "$tmp/jobs/demag-unsharded.csv" > /dev/null \
+            || die "the unsharded demagnetization study failed"
+        cmp "$tmp/jobs/demag-unsharded.csv" "$dwork/sweep.csv" || die "merged demagnetization study differs from the unsharded run"
+        say "demag test passed: 4 shards merged on Slurm equal the unsharded study byte for byte ($(elapsed))"
+    fi
     echo "1 passed, 0 failed"
 fi

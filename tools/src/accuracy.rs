@@ -44,6 +44,17 @@ use axicore_solver::post::indicator::ElementIndicator;
 
 use crate::case::Case;
 use crate::pipeline::{discretise, run_from, FieldSnapshot, Outcome, RunError, RunOptions};
+use crate::report::Report;
+
+/// A quantity whose estimated relative error refinement drives below the tolerance, read off
+/// each level's report (the dipole moment by default; a study may ask for others, e.g. the
+/// core's mid-plane flux).
+pub type Goal = fn(&Report) -> f64;
+
+/// The default goal: the total dipole moment.
+pub fn dipole_goal(r: &Report) -> f64 {
+    r.dipole_moment_Am2
+}
 
 /// How the mesh is refined between levels.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -80,6 +91,12 @@ pub struct Level {
     pub size: f64,
     /// Newton iterations of the level (0 for a linear core).
     pub newton_iterations: usize,
+    /// The extra goals' values on this level (empty unless a study asked for goals).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub goals: Vec<f64>,
+    /// Their estimated relative errors (None on the first level).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub goal_errors: Vec<Option<f64>>,
 }
 
 /// How an error-controlled run went.
@@ -89,6 +106,8 @@ pub struct History {
     pub levels: Vec<Level>,
     /// Estimated relative error of the reported moment.
     pub estimated_relative_error: f64,
+    /// Estimated relative errors of the extra goals (in the order asked; empty without).
+    pub goal_errors: Vec<f64>,
     /// Whether the estimate met the tolerance.
     pub reached: bool,
     /// What stopped the refinement.
@@ -166,6 +185,21 @@ pub fn run_to_tolerance_observed(
     refine: Refine,
     on_level: &mut dyn FnMut(&Level),
 ) -> Result<Controlled, RunError> {
+    run_to_goals(case, opts, tolerance, caps, refine, &[], on_level)
+}
+
+/// As [`run_to_tolerance_observed`], with `goals` in place of the dipole moment: refinement
+/// stops when every goal's estimated relative error is at most `tolerance` (the dipole's own
+/// estimate is still computed and reported). With no goals the dipole is the goal.
+pub fn run_to_goals(
+    case: &Case,
+    opts: &RunOptions,
+    tolerance: f64,
+    caps: Caps,
+    refine: Refine,
+    goals: &[Goal],
+    on_level: &mut dyn FnMut(&Level),
+) -> Result<Controlled, RunError> {
     let clock = std::time::Instant::now();
     let max_nodes = caps.max_nodes;
     let p = assumed_order(case.mesh.order);
@@ -221,7 +255,13 @@ pub fn run_to_tolerance_observed(
         // Meshes are not nested and the mesher's sizes are not exactly proportional to
         // 1/fineness (fixed features, polygon segments), so the size comes from the unknowns.
         let size = (r.unknowns as f64).powf(-0.5);
-        let estimate = estimate(&levels, m, size, p);
+        let estimate = estimate(&sequence(&levels, None), m, size, p);
+        let values: Vec<f64> = goals.iter().map(|g| g(r)).collect();
+        let goal_errors: Vec<Option<f64>> = values
+            .iter()
+            .enumerate()
+            .map(|(k, &v)| self::estimate(&sequence(&levels, Some(k)), v, size, p))
+            .collect();
         levels.push(Level {
             nodes: r.nodes,
             unknowns: r.unknowns,
@@ -231,20 +271,29 @@ pub fn run_to_tolerance_observed(
             order: estimate.map(|_| p),
             size,
             newton_iterations: r.newton_iterations,
+            goals: values.clone(),
+            goal_errors: goal_errors.clone(),
         });
         on_level(&levels[levels.len() - 1]);
         let unchanged = levels.len() >= 2 && {
             let l = &levels[levels.len() - 2];
             l.nodes == r.nodes && l.unknowns == r.unknowns
         };
-        let reached = estimate.is_some_and(|e| e <= tolerance);
+        // A goal that is exactly zero has no relative error: it does not hold refinement.
+        let goal_met =
+            |(e, v): (&Option<f64>, &f64)| *v == 0.0 || e.is_some_and(|e| e <= tolerance);
+        let reached = if goals.is_empty() {
+            estimate.is_some_and(|e| e <= tolerance)
+        } else {
+            goal_errors.iter().zip(&values).all(goal_met)
+        };
         let next_too_big = 2.2 * r.nodes as f64 > max_nodes as f64;
         let elapsed = clock.elapsed().as_secs_f64();
         let last_level = r.timings_s.total();
         let next_too_late = caps
             .max_seconds
             .is_some_and(|t| elapsed + 2.5 * last_level > t);
-        let stop = if m == 0.0 {
+        let stop = if m == 0.0 && goals.is_empty() {
             Some(Stop::ZeroMoment)
         } else if reached {
             Some(Stop::Tolerance)
@@ -265,6 +314,17 @@ pub fn run_to_tolerance_observed(
                 outcome,
                 history: History {
                     estimated_relative_error: estimate.unwrap_or(f64::INFINITY),
+                    goal_errors: goal_errors
+                        .iter()
+                        .zip(&values)
+                        .map(|(e, &v)| {
+                            if v == 0.0 {
+                                0.0
+                            } else {
+                                e.unwrap_or(f64::INFINITY)
+                            }
+                        })
+                        .collect(),
                     levels,
                     reached,
                     stop,
@@ -325,9 +385,27 @@ fn start_factor(tolerance: f64, element_order: usize) -> f64 {
     }
 }
 
-/// Estimated relative error for a new moment `m` at size parameter `size` after the
+/// One earlier level of a quantity: its value and the level's size parameter.
+#[derive(Debug, Clone, Copy)]
+struct Sample {
+    value: f64,
+    size: f64,
+}
+
+/// The earlier levels' values of the dipole (`goal` None) or of goal `k`.
+fn sequence(levels: &[Level], goal: Option<usize>) -> Vec<Sample> {
+    levels
+        .iter()
+        .map(|l| Sample {
+            value: goal.map_or(l.dipole_moment_Am2, |k| l.goals[k]),
+            size: l.size,
+        })
+        .collect()
+}
+
+/// Estimated relative error for a new value `m` at size parameter `size` after the
 /// `previous` levels, for an assumed order `p` in the size.
-fn estimate(previous: &[Level], m: f64, size: f64, p: f64) -> Option<f64> {
+fn estimate(previous: &[Sample], m: f64, size: f64, p: f64) -> Option<f64> {
     let n = previous.len();
     if n == 0 || m == 0.0 {
         return None;
@@ -337,7 +415,7 @@ fn estimate(previous: &[Level], m: f64, size: f64, p: f64) -> Option<f64> {
     if growth <= 1.0 {
         return None;
     }
-    let mut d = (m - last.dipole_moment_Am2).abs();
+    let mut d = (m - last.value).abs();
     if n >= 2 {
         let before = &previous[n - 2];
         // The guard expects convergence at most one order faster than assumed: faster than
@@ -350,8 +428,7 @@ fn estimate(previous: &[Level], m: f64, size: f64, p: f64) -> Option<f64> {
         // size differs mostly by mesh noise, which the rescaling would magnify.
         if previous_growth > 1.3 {
             // The previous difference, rescaled to this step's expected size.
-            let rescaled = (last.dipole_moment_Am2 - before.dipole_moment_Am2).abs()
-                * (growth_g - 1.0)
+            let rescaled = (last.value - before.value).abs() * (growth_g - 1.0)
                 / (previous_growth - 1.0)
                 / growth_g;
             d = d.max(rescaled);
@@ -364,17 +441,8 @@ fn estimate(previous: &[Level], m: f64, size: f64, p: f64) -> Option<f64> {
 mod tests {
     use super::*;
 
-    fn level(m: f64, size: f64) -> Level {
-        Level {
-            nodes: 0,
-            unknowns: 0,
-            fineness: 1.0,
-            dipole_moment_Am2: m,
-            estimated_relative_error: None,
-            order: None,
-            size,
-            newton_iterations: 0,
-        }
+    fn level(m: f64, size: f64) -> Sample {
+        Sample { value: m, size }
     }
 
     /// Effectivity (true error ÷ estimate) at the third of three levels with h = 1, 1/√2, 1/2

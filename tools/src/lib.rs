@@ -10,6 +10,7 @@ pub mod apparent;
 pub mod bh_csv;
 pub mod case;
 pub mod commands;
+pub mod demag;
 pub mod geometry;
 pub mod operating_point;
 pub mod output;

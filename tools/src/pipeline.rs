@@ -381,6 +381,11 @@ pub fn run_from(
         Some(_) => crate::apparent::apparent(&model, case, &sol, 0.0),
         None => None,
     };
+    let averages = case
+        .core
+        .as_ref()
+        .map(|c| crate::demag::averages::core_averages(&model, &sol, &locator, c, fig.core))
+        .transpose()?;
     let core = case.core.as_ref().map(|c| {
         let centre_r = match c.shape {
             crate::case::CoreShape::Tube { bore, diameter, .. } => 0.25 * (bore + diameter),
@@ -391,6 +396,7 @@ pub fn run_from(
             .map(|(_, _, b)| b)
             .unwrap_or([f64::NAN; 2]);
         let n_ell = crate::apparent::ellipsoid_factor(crate::apparent::aspect_ratio(&c.shape));
+
         let mu_i = c.material.initial_mu_r();
         CoreReport {
             shape: c.shape.to_string(),
@@ -412,7 +418,10 @@ pub fn run_from(
                 .peak
                 .map(|p| operating_point::axial_position_words(case, p.at).to_string()),
             length_over_diameter: crate::apparent::aspect_ratio(&c.shape),
-            average_b_z_T: apparent.map_or(0.0, |a| a.b_avg),
+            average_b_z_T: averages.as_ref().map_or(f64::NAN, |a| a.b_z),
+            average_h_z_A_per_m: averages.as_ref().map_or(f64::NAN, |a| a.h_z()),
+            mid_plane_flux_Wb: averages.as_ref().map_or(f64::NAN, |a| a.mid_flux),
+            mid_plane_area_m2: averages.as_ref().map_or(f64::NAN, |a| a.mid_area),
             applied_h_average_A_per_m: apparent.map_or(0.0, |a| a.applied_h_avg),
             apparent_permeability: apparent.and_then(|a| a.mu_app),
             ellipsoid_demagnetizing_factor: n_ell,

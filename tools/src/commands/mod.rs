@@ -6,6 +6,7 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand};
 
 mod args;
+mod demag;
 mod emit;
 mod example;
 mod failure;
@@ -36,6 +37,9 @@ Examples:
                                                   moment–current curve of the example
   axicore sweep my.toml --vary core.length=50mm..100mm:6 --values core.mu_r=1000,10000 --out s.csv
                                                   12 solves into one CSV (rerun resumes)
+  axicore demag --out demag.csv --json demag.json --plots plots/
+                                                  Nm, Nf of rods over L/D and χ vs the formulas
+  axicore demag my.toml                           the same verdict for the core of a case
   axicore example > my.toml                       start a case from the example
   axicore materials                               list built-in materials
   axicore materials nickel-iron-80 --csv          print a material's B–H curve
@@ -45,7 +49,7 @@ Exit codes: 0 success, 1 failure, 2 bad input, 3 the nonlinear solve did not con
 
 /// The short usage line printed when no subcommand is given.
 const USAGE: &str =
-    "usage: axicore <solve|mesh|ramp|sweep|merge|example|materials> [CASE] [OPTIONS] (axicore --help for more)";
+    "usage: axicore <solve|mesh|ramp|sweep|merge|demag|example|materials> [CASE] [OPTIONS] (axicore --help for more)";
 
 /// Axisymmetric finite-element magnetostatics for rod-core coils: dipole moment per winding
 /// on a finite core, fields, inductance, VTK maps.
@@ -73,6 +77,9 @@ enum Command {
     Sweep(sweep::SweepArgs),
     /// Join the shard files of a sweep into the file the unsharded sweep writes.
     Merge(sweep::MergeArgs),
+    /// Demagnetizing factors Nm and Nf over a grid of L/D, χ and bore (or of one case's
+    /// core), against the formulas users substitute for them.
+    Demag(demag::DemagArgs),
     /// Print the built-in example case file.
     Example,
     /// List the built-in materials, or print or draw one material's B–H curve.
@@ -97,6 +104,7 @@ pub fn main() -> ExitCode {
         Command::Ramp(a) => ramp::ramp(a, quiet),
         Command::Sweep(a) => sweep::sweep(a, quiet),
         Command::Merge(a) => sweep::merge_shards(a),
+        Command::Demag(a) => demag::demag(a, quiet),
         Command::Example => example::example(),
         Command::Materials(a) => materials::materials(a),
     };

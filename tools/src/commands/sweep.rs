@@ -12,7 +12,7 @@ use crate::case::read_case_text;
 use crate::output;
 use crate::progress::Progress;
 use crate::study::grid;
-use crate::study::sweep::{merge, Sweep};
+use crate::study::sweep::{merge, CaseKeys, KeySweep, Sweep};
 use crate::study::sweep_file::partial_path;
 
 /// Options of `axicore sweep`.
@@ -51,7 +51,7 @@ pub struct MergeArgs {
     out: PathBuf,
 }
 
-fn parse_shard(text: &str) -> Result<(usize, usize), Failure> {
+pub(super) fn parse_shard(text: &str) -> Result<(usize, usize), Failure> {
     let fault = || Failure::input(format!("--shard: '{text}' must be K/N with 1 ≤ K ≤ N"));
     let (k, n) = text.split_once('/').ok_or_else(fault)?;
     let (k, n): (usize, usize) = (
@@ -101,11 +101,17 @@ pub fn sweep(a: SweepArgs, quiet: bool) -> Result<u8, Failure> {
             "sweep: {points} points is more than 10 000 000"
         )));
     }
+    let study = KeySweep {
+        keys: CaseKeys {
+            case_file: file,
+            case_text,
+            tolerance: a.tolerance,
+        },
+        axes: axes.clone(),
+    };
     let sweep = Sweep {
-        case_file: file,
-        case_text,
         axes,
-        tolerance: a.tolerance,
+        study: &study,
         shard,
     };
     let outcome = {

@@ -15,6 +15,8 @@ use thiserror::Error;
 
 pub mod colormap;
 pub mod contour;
+pub mod demag;
+pub mod demag_map;
 pub mod field_map;
 pub mod field_map_case;
 mod field_map_draw;

@@ -2,6 +2,7 @@
 
 mod cautions;
 mod csv;
+pub mod demag;
 pub mod format;
 mod history;
 mod json;
@@ -148,6 +149,12 @@ pub struct CoreReport {
     pub length_over_diameter: f64,
     /// ⟨B_z⟩ over the core volume, T.
     pub average_b_z_T: f64,
+    /// ⟨H_z⟩ over the core volume (B/μ0 − M), A/m.
+    pub average_h_z_A_per_m: f64,
+    /// Flux through the core's mid-plane cross-section (disc, or annulus for a tube), Wb.
+    pub mid_plane_flux_Wb: f64,
+    /// Area of that cross-section, m².
+    pub mid_plane_area_m2: f64,
     /// ⟨H_z⟩ of the applied field (core replaced by vacuum) over the core volume, A/m.
     pub applied_h_average_A_per_m: f64,
     /// Apparent permeability ⟨B_z⟩/(μ0 ⟨H_app,z⟩) from the field solution; None without an

@@ -15,17 +15,25 @@ use crate::accuracy::{self, Caps, Refine};
 use crate::case::parse_case;
 use crate::pipeline::{run, RunOptions};
 
-/// A sweep to run.
-#[derive(Debug, Clone)]
-pub struct Sweep {
-    /// The case file's path (names it in messages and resolves its relative B–H files).
-    pub case_file: String,
-    /// The case file's text.
-    pub case_text: String,
+/// What a sweep computes at each point: a pure function from the point's axis values to the
+/// quantity cells of its row.
+pub trait PointStudy: Sync {
+    /// Everything besides the axes that identifies the sweep (case text, options), hashed
+    /// into its fingerprint.
+    fn definition(&self) -> String;
+    /// The quantity columns after the axes, comma-separated, `status` first.
+    fn columns(&self) -> String;
+    /// The quantity cells of the point with these axis values (after `status`, which is
+    /// `ok`), or why the point failed.
+    fn solve(&self, values: &[&toml::Value]) -> Result<String, String>;
+}
+
+/// A sweep to run: the grid, what each point computes, and the shard.
+pub struct Sweep<'s> {
     /// The varied keys.
     pub axes: Vec<Axis>,
-    /// Refine each point to this estimated relative error of the moment.
-    pub tolerance: Option<f64>,
+    /// What each point computes.
+    pub study: &'s dyn PointStudy,
     /// (K, N): compute only the points i with i % N == K − 1.
     pub shard: Option<(usize, usize)>,
 }
@@ -43,64 +51,35 @@ pub struct SweepOutcome {
     pub failed: usize,
 }
 
+/// The plain sweep over case keys: each point is the case file with the axes' keys set,
+/// solved (to a tolerance if asked) like `axicore solve`.
+#[derive(Debug, Clone)]
+pub struct CaseKeys {
+    /// The case file's path (names it in messages and resolves its relative B–H files).
+    pub case_file: String,
+    /// The case file's text.
+    pub case_text: String,
+    /// Refine each point to this estimated relative error of the moment.
+    pub tolerance: Option<f64>,
+}
+
 /// Columns after the varied keys.
 const QUANTITIES: &str = "status,dipole_moment_Am2,estimated_relative_error,moment_gain,apparent_permeability,inductance_H,max_core_b_T,newton_iterations";
 
-impl Sweep {
-    /// The identification of this sweep (and shard).
-    pub fn id(&self) -> SweepId {
-        let mut def = self.case_text.clone();
-        for a in &self.axes {
-            let _ = write!(def, "\n{}=", a.key);
-            for v in &a.values {
-                let _ = write!(def, "{}|", grid::cell(v));
-            }
-        }
-        let _ = write!(def, "\ntolerance={:?}", self.tolerance);
-        SweepId {
-            fingerprint: sweep_file::fnv1a(def.as_bytes()),
-            points: grid::point_count(&self.axes),
-            shard: self.shard,
-        }
+/// The case text with the axes' keys set to `values`.
+pub fn modified_case(text: &str, axes: &[Axis], values: &[&toml::Value]) -> Result<String, String> {
+    let mut root: Table = text
+        .parse()
+        .map_err(|e: toml::de::Error| e.message().to_string())?;
+    for (axis, v) in axes.iter().zip(values) {
+        grid::set_key(&mut root, &axis.key, (*v).clone())?;
     }
+    toml::to_string(&root).map_err(|e| e.to_string())
+}
 
-    /// The header row.
-    pub fn header(&self) -> String {
-        let keys: Vec<&str> = self.axes.iter().map(|a| a.key.as_str()).collect();
-        format!("index,{},{QUANTITIES}\n", keys.join(","))
-    }
-
-    /// The indices this run computes.
-    pub fn indices(&self) -> Vec<usize> {
-        let n = grid::point_count(&self.axes);
-        match self.shard {
-            Some((k, of)) => (0..n).filter(|i| i % of == k - 1).collect(),
-            None => (0..n).collect(),
-        }
-    }
-
-    /// The row of point `index`: a failed point (a bad value, a solve that did not converge)
-    /// is a row with its message, not an aborted sweep.
-    pub fn row(&self, index: usize) -> String {
-        let values = grid::point(&self.axes, index);
-        let cells: Vec<String> = values.iter().map(|v| csv_cell(&grid::cell(v))).collect();
-        let result = self.solve_point(&values);
-        let tail = match result {
-            Ok(q) => q,
-            Err(e) => format!("{},,,,,,,", csv_cell(&format!("failed: {e}"))),
-        };
-        format!("{index},{},{tail}\n", cells.join(","))
-    }
-
-    fn solve_point(&self, values: &[&toml::Value]) -> Result<String, String> {
-        let mut root: Table = self
-            .case_text
-            .parse()
-            .map_err(|e: toml::de::Error| e.message().to_string())?;
-        for (axis, v) in self.axes.iter().zip(values) {
-            grid::set_key(&mut root, &axis.key, (*v).clone())?;
-        }
-        let text = toml::to_string(&root).map_err(|e| e.to_string())?;
+impl CaseKeys {
+    fn solve_with(&self, axes: &[Axis], values: &[&toml::Value]) -> Result<String, String> {
+        let text = modified_case(&self.case_text, axes, values)?;
         let case = parse_case(&text, &self.case_file).map_err(|e| e.to_string())?;
         let opts = RunOptions::default();
         let (report, estimate) = match self.tolerance {
@@ -117,7 +96,7 @@ impl Sweep {
         };
         let opt = |v: Option<f64>| v.map_or(String::new(), |x| format!("{x:.9e}"));
         Ok(format!(
-            "ok,{:.9e},{},{},{},{},{},{}",
+            "{:.9e},{},{},{},{},{},{}",
             report.dipole_moment_Am2,
             opt(estimate),
             opt(report.moment_gain),
@@ -126,6 +105,79 @@ impl Sweep {
             opt(report.max_core_b_T),
             report.newton_iterations
         ))
+    }
+}
+
+/// The case-key sweep bound to its axes (the keys it sets are the axes themselves).
+pub struct KeySweep {
+    /// The case and options.
+    pub keys: CaseKeys,
+    /// The axes (also the sweep's).
+    pub axes: Vec<Axis>,
+}
+
+impl PointStudy for KeySweep {
+    fn definition(&self) -> String {
+        format!(
+            "{}\ntolerance={:?}",
+            self.keys.case_text, self.keys.tolerance
+        )
+    }
+
+    fn columns(&self) -> String {
+        QUANTITIES.to_string()
+    }
+
+    fn solve(&self, values: &[&toml::Value]) -> Result<String, String> {
+        self.keys.solve_with(&self.axes, values)
+    }
+}
+
+impl Sweep<'_> {
+    /// The identification of this sweep (and shard).
+    pub fn id(&self) -> SweepId {
+        let mut def = self.study.definition();
+        for a in &self.axes {
+            let _ = write!(def, "\n{}=", a.key);
+            for v in &a.values {
+                let _ = write!(def, "{}|", grid::cell(v));
+            }
+        }
+        SweepId {
+            fingerprint: sweep_file::fnv1a(def.as_bytes()),
+            points: grid::point_count(&self.axes),
+            shard: self.shard,
+        }
+    }
+
+    /// The header row.
+    pub fn header(&self) -> String {
+        let keys: Vec<&str> = self.axes.iter().map(|a| a.key.as_str()).collect();
+        format!("index,{},{}\n", keys.join(","), self.study.columns())
+    }
+
+    /// The indices this run computes.
+    pub fn indices(&self) -> Vec<usize> {
+        let n = grid::point_count(&self.axes);
+        match self.shard {
+            Some((k, of)) => (0..n).filter(|i| i % of == k - 1).collect(),
+            None => (0..n).collect(),
+        }
+    }
+
+    /// The row of point `index`: a failed point (a bad value, a solve that did not converge)
+    /// is a row with its message, not an aborted sweep.
+    pub fn row(&self, index: usize) -> String {
+        let values = grid::point(&self.axes, index);
+        let cells: Vec<String> = values.iter().map(|v| csv_cell(&grid::cell(v))).collect();
+        let tail = match self.study.solve(&values) {
+            Ok(q) => format!("ok,{q}"),
+            Err(e) => {
+                let empty = self.study.columns().matches(',').count();
+                format!("{}{}", csv_cell(&format!("failed: {e}")), ",".repeat(empty))
+            }
+        };
+        format!("{index},{},{tail}\n", cells.join(","))
     }
 
     /// Runs the sweep into `out` (rows appended to `out.partial` as they finish, resuming from
@@ -203,7 +255,7 @@ impl Sweep {
 }
 
 /// A CSV cell, quoted when it holds a comma, quote or newline (RFC 4180).
-fn csv_cell(text: &str) -> String {
+pub fn csv_cell(text: &str) -> String {
     if text.contains([',', '"', '\n', '\r']) {
         format!(
             "\"{}\"",

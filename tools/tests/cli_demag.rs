@@ -1,0 +1,149 @@
+//! `axicore demag` through the binary: the study's file is a sweep file (jobs, shards and a
+//! rerun give the same bytes), `--from` renders a merged study, plots and JSON are written,
+//! a case's core gets its verdict, bad options are one-line faults with nothing written. No
+//! outside source here: the factors themselves are validated in the root package's
+//! `tests/demag_factors_chen_brug_goldfarb.rs`.
+
+mod common;
+
+use std::path::Path;
+
+use common::axicore;
+
+fn p(dir: &Path, name: &str) -> String {
+    dir.join(name).to_str().unwrap().to_string()
+}
+
+/// A small grid: two rods (γ 2 and 8) at χ = 0 and 100, loose tolerance, coarse start.
+const GRID: [&str; 8] = [
+    "--gamma",
+    "2..8:2:log",
+    "--chi",
+    "0,100",
+    "--tolerance",
+    "3e-3",
+    "--fineness",
+    "0.7",
+];
+
+fn demag(dir: &Path, extra: &[&str]) -> (i32, String, String) {
+    let mut args = vec!["demag", "--quiet"];
+    args.extend(GRID);
+    args.extend(extra);
+    let _ = dir;
+    axicore(&args)
+}
+
+#[test]
+fn a_study_gives_the_same_bytes_in_shards_and_renders_plots_and_json() {
+    let dir = common::scratch_dir("demag", "grid");
+    let (code, out, err) = demag(&dir, &["--out", &p(&dir, "whole.csv")]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("Nm") && out.contains("miller"), "{out}");
+    let whole = std::fs::read(dir.join("whole.csv")).unwrap();
+    let text = String::from_utf8_lossy(&whole).to_string();
+    assert_eq!(text.lines().count(), 2 + 4, "{text}");
+    assert!(text
+        .lines()
+        .nth(1)
+        .unwrap()
+        .starts_with("index,gamma,chi,status,Nm,Nm_error,Nf"));
+    for k in ["1/2", "2/2"] {
+        let name = format!("shard{}.csv", &k[..1]);
+        let (code, _, err) = demag(&dir, &["--shard", k, "--out", &p(&dir, &name)]);
+        assert_eq!(code, 0, "{err}");
+    }
+    let (code, _, err) = axicore(&[
+        "merge",
+        &p(&dir, "shard1.csv"),
+        &p(&dir, "shard2.csv"),
+        "--out",
+        &p(&dir, "merged.csv"),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert_eq!(std::fs::read(dir.join("merged.csv")).unwrap(), whole);
+    let plots = dir.join("plots");
+    std::fs::create_dir_all(&plots).unwrap();
+    let (code, _, err) = axicore(&[
+        "demag",
+        "--from",
+        &p(&dir, "merged.csv"),
+        "--json",
+        &p(&dir, "study.json"),
+        "--plots",
+        plots.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let json: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(dir.join("study.json")).unwrap()).unwrap();
+    let points = json["points"].as_array().unwrap();
+    assert_eq!(points.len(), 4);
+    for pt in points {
+        assert!(pt["nm"].as_f64().unwrap() > 0.0 && pt["nf"].as_f64().unwrap() > 0.0);
+    }
+    for name in [
+        "factors-chi-0.svg",
+        "factors-chi-100.svg",
+        "deviation-miller.svg",
+        "deviation-ellipsoid.svg",
+    ] {
+        let svg = std::fs::read_to_string(plots.join(name)).unwrap_or_default();
+        assert!(
+            svg.starts_with("<svg") && svg.contains("length / diameter"),
+            "{name}"
+        );
+    }
+}
+
+#[test]
+fn the_core_of_a_case_gets_its_verdict_at_chi_zero_and_at_its_operating_point() {
+    let dir = common::scratch_dir("demag", "case");
+    let case = "title = \"linear rod\"\n[core]\nshape = \"rod\"\nlength = \"40 mm\"\ndiameter = \"8 mm\"\nmu_r = 200\n[[winding]]\nturns = 100\ncurrent = \"10 mA\"\ninner_radius = \"4.5 mm\"\nouter_radius = \"5 mm\"\nlength = \"30 mm\"\n";
+    std::fs::write(dir.join("rod.toml"), case).unwrap();
+    let (code, out, err) = axicore(&[
+        "demag",
+        "--quiet",
+        &p(&dir, "rod.toml"),
+        "--tolerance",
+        "3e-3",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    // A linear core's operating-point susceptibility is μr − 1 exactly.
+    assert!(
+        out.contains("susceptibility at the operating point 1.99"),
+        "{out}"
+    );
+    assert_eq!(
+        out.lines()
+            .filter(|l| l.trim_start().starts_with("5.0000"))
+            .count(),
+        2,
+        "{out}"
+    );
+}
+
+#[test]
+fn bad_demag_options_are_one_line_faults_and_write_nothing() {
+    let dir = common::scratch_dir("demag", "bad");
+    for (args, needle) in [
+        (vec!["--tolerance", "0"], "--tolerance"),
+        (vec!["--chi", "0,abc"], "--chi"),
+        (vec!["--gamma", "0..10:3:log"], "--gamma"),
+        (vec!["--jobs", "0"], "--jobs"),
+    ] {
+        let out = p(&dir, "x.csv");
+        let mut a = vec!["demag", "--out", out.as_str()];
+        a.extend(args);
+        let (code, _, err) = axicore(&a);
+        assert_eq!(code, 2, "{a:?}: {err}");
+        assert_eq!(err.trim().lines().count(), 1, "{err}");
+        assert!(err.contains(needle), "{err}");
+        assert!(!dir.join("x.csv").exists());
+    }
+    // A negative χ is a failed row, not a crash: the study reports it and exits 5.
+    let out = p(&dir, "neg.csv");
+    let (code, _, err) = axicore(&[
+        "demag", "--quiet", "--gamma", "2..2:1", "--chi=-1", "--out", &out,
+    ]);
+    assert_eq!(code, 5, "{err}");
+}
