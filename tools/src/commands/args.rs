@@ -99,6 +99,7 @@ pub fn check_outputs(outputs: &[(&str, &Path)], input: Option<&Path>) -> Result<
         let expected: &[&str] = match option {
             "--vtk" => &["vtu"],
             "--csv" | "--out" => &["csv"],
+            "--json" => &["json"],
             "--picture" => &["png", "svg"],
             _ => &["svg"],
         };

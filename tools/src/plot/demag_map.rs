@@ -73,7 +73,7 @@ pub fn deviation_map_svg(
             "solid rods".into()
         };
         let title = format!(
-            "{}: N/{target} − 1 over L/D and χ ({shape}); outlined: beyond {:.0} %",
+            "{}: N/{target} − 1 over L/D and χ ({shape}); thick line: the {:.0} % contour",
             formula.label(),
             100.0 * threshold
         );
@@ -109,13 +109,52 @@ pub fn deviation_map_svg(
                 };
                 root.draw(&Rectangle::new(rect(gi, ci), colour.filled()))
                     .map_err(err)?;
-                if cell(gi as usize, ci as usize).is_some_and(|c| c.flagged) {
-                    let [(x0, y0), (x1, y1)] = rect(gi, ci);
-                    root.draw(&Rectangle::new(
-                        [(x0 + 1, y0 + 1), (x1 - 1, y1 - 1)],
-                        BLACK.stroke_width(2),
-                    ))
-                    .map_err(err)?;
+            }
+        }
+        // The threshold contour: a thick line wherever a cell within the threshold meets one
+        // beyond it (the boundary of the region where the formula holds).
+        let flagged = |gi: i32, ci: i32| {
+            (gi >= 0 && ci >= 0 && gi < nx && ci < ny)
+                .then(|| cell(gi as usize, ci as usize).map(|c| c.flagged))
+                .flatten()
+        };
+        for gi in 0..nx {
+            for ci in 0..ny {
+                let Some(here) = flagged(gi, ci) else {
+                    continue;
+                };
+                let [(x0, y0), (x1, y1)] = rect(gi, ci);
+                for (other, edge) in [
+                    (flagged(gi + 1, ci), [(x1, y0), (x1, y1)]),
+                    (flagged(gi, ci + 1), [(x0, y0), (x1, y0)]),
+                ] {
+                    if other.is_some_and(|o| o != here) {
+                        root.draw(&PathElement::new(edge.to_vec(), BLACK.stroke_width(3)))
+                            .map_err(err)?;
+                    }
+                }
+            }
+        }
+        // Small grids carry the deviation in each cell.
+        if nx <= 16 && ny <= 12 {
+            let small = (FAMILY, 12).into_font().color(&BLACK);
+            for gi in 0..nx {
+                for ci in 0..ny {
+                    if let Some(c) = cell(gi as usize, ci as usize) {
+                        let d = if formula.targets_fluxmetric() {
+                            c.vs_nf
+                        } else {
+                            c.vs_nm
+                        };
+                        let [(x0, y0), _] = rect(gi, ci);
+                        let text = format!("{:+.1} %", 100.0 * d);
+                        root.draw(&Text::new(
+                            text,
+                            (x0 + cw / 2 - 22, y0 + ch / 2 - 6),
+                            small.clone(),
+                        ))
+                        .map_err(err)?;
+                    }
                 }
             }
         }
