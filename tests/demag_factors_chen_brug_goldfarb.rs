@@ -136,3 +136,26 @@ fn small_susceptibility_runs_approach_the_prescribed_magnetization_factors() {
         }
     }
 }
+
+#[test]
+fn solve_reports_a_linear_cores_factors_whether_a_background_or_a_winding_drives_it() {
+    // Osborn (1945): the m = 10 spheroid's factors are N = 0.0202859 both ways, whether read
+    // off the case's own uniform-field solve or off the companion solve of a winding case.
+    use axicore::case::parse_case;
+    use axicore::pipeline::{run, RunOptions};
+    let n = reference::prolate_demag_factor(10.0);
+    let alone = "[core]\nshape = \"spheroid\"\nlength = \"100 mm\"\ndiameter = \"10 mm\"\nmu_r = 1000\n[background]\nb_axial = \"1 mT\"\n";
+    let wound = "[core]\nshape = \"spheroid\"\nlength = \"100 mm\"\ndiameter = \"10 mm\"\nmu_r = 1000\n[[winding]]\nturns = 100\ncurrent = \"10 mA\"\ninner_radius = \"6 mm\"\nouter_radius = \"7 mm\"\nlength = \"40 mm\"\n";
+    for text in [alone, wound] {
+        let case = parse_case(text, "spheroid.toml").unwrap();
+        let r = run(&case, &RunOptions::default()).unwrap().report;
+        let df = r.core.unwrap().demagnetizing_factors.unwrap();
+        for v in [df.factors.nm, df.factors.nf] {
+            assert!((v - n).abs() <= 2e-4 * n, "{}: {v} vs {n}", df.from);
+        }
+        assert!(
+            df.formulas.iter().any(|d| !d.flagged),
+            "the ellipsoid formula is exact here"
+        );
+    }
+}

@@ -386,6 +386,8 @@ pub fn run_from(
         .as_ref()
         .map(|c| crate::demag::averages::core_averages(&model, &sol, &locator, c, fig.core))
         .transpose()?;
+    let demag_factors =
+        crate::demag::case::case_factors(case, &model, op.as_ref(), &locator, averages.as_ref())?;
     let core = case.core.as_ref().map(|c| {
         let centre_r = match c.shape {
             crate::case::CoreShape::Tube { bore, diameter, .. } => 0.25 * (bore + diameter),
@@ -422,6 +424,7 @@ pub fn run_from(
             average_h_z_A_per_m: averages.as_ref().map_or(f64::NAN, |a| a.h_z()),
             mid_plane_flux_Wb: averages.as_ref().map_or(f64::NAN, |a| a.mid_flux),
             mid_plane_area_m2: averages.as_ref().map_or(f64::NAN, |a| a.mid_area),
+            demagnetizing_factors: demag_factors.clone(),
             applied_h_average_A_per_m: apparent.map_or(0.0, |a| a.applied_h_avg),
             apparent_permeability: apparent.and_then(|a| a.mu_app),
             ellipsoid_demagnetizing_factor: n_ell,

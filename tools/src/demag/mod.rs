@@ -13,5 +13,6 @@
 //! with error bars, [`formulas`] evaluates the closed forms and approximations beside them.
 
 pub mod averages;
+pub mod case;
 pub mod factors;
 pub mod formulas;

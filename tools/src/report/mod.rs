@@ -155,6 +155,9 @@ pub struct CoreReport {
     pub mid_plane_flux_Wb: f64,
     /// Area of that cross-section, m².
     pub mid_plane_area_m2: f64,
+    /// Magnetometric and fluxmetric demagnetizing factors of the core with the formulas'
+    /// values (linear cores and a magnet alone; None for saturating cores).
+    pub demagnetizing_factors: Option<crate::demag::case::CaseFactors>,
     /// ⟨H_z⟩ of the applied field (core replaced by vacuum) over the core volume, A/m.
     pub applied_h_average_A_per_m: f64,
     /// Apparent permeability ⟨B_z⟩/(μ0 ⟨H_app,z⟩) from the field solution; None without an

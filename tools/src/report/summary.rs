@@ -123,6 +123,40 @@ pub fn summary(r: &Report, show_timings: bool, digits: usize) -> String {
                 ""
             }
         );
+        if let Some(df) = &c.demagnetizing_factors {
+            let f = &df.factors;
+            let _ = writeln!(
+                s,
+                "  demagnetizing factors    Nm {} (volume), Nf {} (mid-plane); {}",
+                sig(f.nm, 4),
+                sig(f.nf, 4),
+                df.from
+            );
+            let cells: Vec<String> = df
+                .formulas
+                .iter()
+                .map(|d| {
+                    let (n, dev) = if d.formula.targets_fluxmetric() {
+                        (d.n_for_nf, d.vs_nf)
+                    } else {
+                        (d.n_for_nm, d.vs_nm)
+                    };
+                    format!(
+                        "{} {} ({:+.1} %{})",
+                        d.formula.name(),
+                        sig(n, 4),
+                        100.0 * dev,
+                        if d.flagged { ", off" } else { "" }
+                    )
+                })
+                .collect();
+            let _ = writeln!(
+                s,
+                "  formulas for N           {} — against Nf for ferrite_fit, Nm otherwise; off: beyond {:.0} %",
+                cells.join(", "),
+                100.0 * crate::demag::case::REPORT_THRESHOLD
+            );
+        }
         if let Some(n) = c.effective_demagnetizing_factor {
             let _ = writeln!(
                 s,
