@@ -15,6 +15,7 @@
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
+mod band;
 mod error;
 mod mesh;
 mod pslg;
@@ -28,7 +29,7 @@ pub use error::MeshError;
 pub use mesh::{aspect_ratio, signed_area, triangle_angles, Mesh, MeshStats, NodeKind};
 pub use pslg::MIN_INPUT_ANGLE_DEG;
 pub use refine::MAX_SIZE_PASSES;
-pub use spec::{MeshSpec, Point, Refinement, Region, Shape};
+pub use spec::{Band, MeshSpec, Point, Refinement, Region, Shape};
 pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
 
 /// Builds the mesh described by `spec`, or says which input is wrong.

@@ -85,6 +85,7 @@ pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
             });
         }
     }
+    check_bands(spec)?;
     for (k, refinement) in spec.refinements.iter().enumerate() {
         match *refinement {
             Refinement::Point { at, size } => {
@@ -110,6 +111,63 @@ pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
                 }
             }
         }
+    }
+    Ok(())
+}
+
+/// Bands: finite, positive sizes, increasing columns inside, inside the domain, apart from each
+/// other, and a grid that fits under the node cap.
+fn check_bands(spec: &MeshSpec) -> Result<(), MeshError> {
+    let mut ranges: Vec<(f64, f64)> = Vec::new();
+    for band in &spec.bands {
+        finite("band z_min", band.z_min)?;
+        finite("band z_max", band.z_max)?;
+        positive("band length", band.z_max - band.z_min)?;
+        positive("band r_max", band.r_max)?;
+        positive("band end_size", band.end_size)?;
+        positive("band max_size", band.max_size)?;
+        finite("band growth", band.growth)?;
+        if band.growth < 0.0 {
+            return Err(MeshError::BadSize {
+                what: "band growth",
+                value: band.growth,
+            });
+        }
+        let mut last = 0.0;
+        for &c in &band.columns {
+            if !(c.is_finite() && c > last && c < band.r_max) {
+                return Err(MeshError::BadSize {
+                    what: "band column (increasing, between 0 and r_max)",
+                    value: c,
+                });
+            }
+            last = c;
+        }
+        let far = band.r_max.hypot(band.z_min.abs().max(band.z_max.abs()));
+        if far >= spec.outer_radius * (1.0 - OUTER_ARC_TOLERANCE) {
+            return Err(MeshError::BadSize {
+                what: "band extent (must be inside the outer polygon)",
+                value: far,
+            });
+        }
+        // Rows: at most the length over the end size.
+        let rows = (band.z_max - band.z_min) / band.end_size.min(band.max_size) + 3.0;
+        if rows * (band.columns.len() + 2) as f64 > spec.max_nodes as f64 {
+            return Err(MeshError::TooManyNodes {
+                limit: spec.max_nodes,
+                reached: (rows * (band.columns.len() + 2) as f64).min(usize::MAX as f64) as usize,
+            });
+        }
+        if ranges
+            .iter()
+            .any(|&(lo, hi)| band.z_min < hi && lo < band.z_max)
+        {
+            return Err(MeshError::BadSize {
+                what: "band z_min (bands must not overlap along z)",
+                value: band.z_min,
+            });
+        }
+        ranges.push((band.z_min, band.z_max));
     }
     Ok(())
 }

@@ -176,5 +176,12 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
             size,
         });
     }
+    if let Some(core) = &case.core {
+        let size = case
+            .mesh
+            .core_size
+            .unwrap_or(core_thickness(&core.shape) / (3.0 * case.mesh.fineness));
+        spec.bands = crate::slender::rod_bands(case, &spec, size, f);
+    }
     spec
 }

@@ -1,0 +1,290 @@
+//! Graded bands: the middle of a slender body meshed as a grid of stretched rectangles.
+//!
+//! Isotropic triangles along a rod of length L and radius a cost about L/a elements per row, so a
+//! mesh that resolves the radius along the whole length grows like the slenderness. Away from the
+//! ends the field varies along z only on the scale of the distance to the nearer end, so rows may
+//! grow with that distance: the band's rows are `end_size` apart at its ends and grow linearly,
+//! giving a row count that grows like the logarithm of the band's length. Columns are fixed lines
+//! r = const (the core's radius, the windings' radii, a few in between), so every rectangle is
+//! cut into two right triangles: angles are 90° and two complements, however long the rectangle.
+//!
+//! The triangulator does not mesh the band: its outline enters the constrained triangulation as
+//! constraint edges, the Delaunay refinement fills its inside with throw-away points, and after
+//! refinement everything strictly inside is dropped and replaced by the grid. The refinement may
+//! have split the band's edges; a point on the outer edge adds a row, a point on an end edge is
+//! joined by a fan inside its rectangle, so the two parts always conform.
+
+use crate::error::MeshError;
+use crate::spec::{Band, Point};
+
+/// Tolerance, relative to the band's extent, for a point to lie on one of its edges.
+const ON_EDGE: f64 = 1e-9;
+
+impl Band {
+    /// Length below which a point lies on an edge of the band (m).
+    pub(crate) fn tol(&self) -> f64 {
+        ON_EDGE * self.r_max.max(self.z_max - self.z_min)
+    }
+
+    /// Whether `p` lies strictly inside the band (off its edges and the axis).
+    pub(crate) fn holds(&self, p: Point) -> bool {
+        let t = self.tol();
+        p[0] > t && p[0] < self.r_max - t && p[1] > self.z_min + t && p[1] < self.z_max - t
+    }
+
+    /// Whether `p` is on the axis strictly between the band's ends (the band's own axis nodes
+    /// replace such points).
+    pub(crate) fn on_inner_axis(&self, p: Point) -> bool {
+        let t = self.tol();
+        p[0] <= t && p[1] > self.z_min + t && p[1] < self.z_max - t
+    }
+
+    /// Every column line, from the axis to the outer edge.
+    fn all_columns(&self) -> Vec<f64> {
+        let mut c = vec![0.0];
+        c.extend_from_slice(&self.columns);
+        c.push(self.r_max);
+        c
+    }
+
+    /// Row positions from `z_min` to `z_max`, graded symmetrically from both ends.
+    pub(crate) fn rows(&self) -> Vec<f64> {
+        let half = 0.5 * (self.z_max - self.z_min);
+        let step = |s: f64| (self.end_size + self.growth * s).min(self.max_size);
+        // Distances from the nearer end.
+        let mut s = vec![0.0];
+        loop {
+            let last = s[s.len() - 1];
+            let next = last + step(last);
+            if next >= half {
+                break;
+            }
+            s.push(next);
+        }
+        // Whatever is left in the middle is at most two steps; a sliver would be a bad row.
+        let last = s[s.len() - 1];
+        if s.len() > 1 && half - last < 0.25 * step(last) {
+            s.pop();
+        }
+        let last = s[s.len() - 1];
+        let mut rows: Vec<f64> = s.iter().map(|d| self.z_min + d).collect();
+        if half - last > 0.75 * step(last) || s.len() < 2 {
+            rows.push(self.z_min + half);
+        }
+        rows.extend(s.iter().rev().map(|d| self.z_max - d));
+        rows
+    }
+
+    /// The band's outline as a closed chain (first point repeated at the end), counter-clockwise:
+    /// along the lower end through the columns, up the outer edge through the rows, back along the
+    /// upper end, down the axis through the rows.
+    pub(crate) fn outline(&self, rows: &[f64]) -> Vec<Point> {
+        let cols = self.all_columns();
+        let mut chain: Vec<Point> = cols.iter().map(|&r| [r, self.z_min]).collect();
+        chain.extend(rows[1..].iter().map(|&z| [self.r_max, z]));
+        chain.extend(cols.iter().rev().skip(1).map(|&r| [r, self.z_max]));
+        chain.extend(rows.iter().rev().skip(1).map(|&z| [0.0, z]));
+        chain
+    }
+
+    /// Appends the band's grid to a mesh whose nodes on the band's edges are `edge_nodes` (index,
+    /// position): new nodes go to `nodes`, triangles (counter-clockwise) to `triangles`.
+    pub(crate) fn tile(
+        &self,
+        edge_nodes: &[(u32, Point)],
+        nodes: &mut Vec<Point>,
+        triangles: &mut Vec<[u32; 3]>,
+    ) -> Result<(), MeshError> {
+        let t = self.tol();
+        let cols = self.all_columns();
+        let m = cols.len() - 1;
+        let is_col = |r: f64| cols.iter().any(|&c| (c - r).abs() <= t);
+        let mut rows = self.rows();
+        // Points the refinement put on the outer edge become rows of their own.
+        for &(_, p) in edge_nodes {
+            let inside = p[1] > self.z_min + t && p[1] < self.z_max - t;
+            if (p[0] - self.r_max).abs() <= t
+                && inside
+                && !rows.iter().any(|&z| (z - p[1]).abs() <= t)
+            {
+                rows.push(p[1]);
+            }
+        }
+        rows.sort_by(f64::total_cmp);
+        let n = rows.len() - 1;
+        let find = |r: f64, z: f64| -> Result<u32, MeshError> {
+            edge_nodes
+                .iter()
+                .find(|(_, p)| (p[0] - r).abs() <= t && (p[1] - z).abs() <= t)
+                .map(|&(k, _)| k)
+                .ok_or_else(|| MeshError::Triangulation {
+                    reason: format!("graded band lost its edge node at ({r}, {z}) m"),
+                })
+        };
+        let mut idx = vec![vec![0u32; m + 1]; n + 1];
+        for (i, &z) in rows.iter().enumerate() {
+            for (j, &r) in cols.iter().enumerate() {
+                idx[i][j] = if i == 0 || i == n || j == m {
+                    find(r, z)?
+                } else {
+                    nodes.push([r, z]);
+                    (nodes.len() - 1) as u32
+                };
+            }
+        }
+        // Points the refinement put on an end edge, by the cell they fall in.
+        let mut extras: Vec<Vec<(f64, u32)>> = vec![Vec::new(); 2 * m];
+        for &(k, p) in edge_nodes {
+            let end = if (p[1] - self.z_min).abs() <= t {
+                0
+            } else if (p[1] - self.z_max).abs() <= t {
+                1
+            } else {
+                continue;
+            };
+            if is_col(p[0]) || p[0] < 0.0 || p[0] > self.r_max {
+                continue;
+            }
+            let j = cols.partition_point(|&c| c < p[0]) - 1;
+            extras[end * m + j].push((p[0], k));
+        }
+        for e in &mut extras {
+            e.sort_by(|a, b| a.0.total_cmp(&b.0));
+        }
+        for i in 0..n {
+            for j in 0..m {
+                let (bl, br, tr, tl) = (idx[i][j], idx[i][j + 1], idx[i + 1][j + 1], idx[i + 1][j]);
+                let below: &[(f64, u32)] = if i == 0 { &extras[j] } else { &[] };
+                let above: &[(f64, u32)] = if i == n - 1 { &extras[m + j] } else { &[] };
+                if below.is_empty() && above.is_empty() {
+                    triangles.push([bl, br, tr]);
+                    triangles.push([bl, tr, tl]);
+                    continue;
+                }
+                // A convex polygon with extra points on one or two opposite sides: a fan from a
+                // corner on neither of them has no degenerate triangle.
+                let mut poly = vec![bl];
+                poly.extend(below.iter().map(|e| e.1));
+                poly.extend([br, tr]);
+                poly.extend(above.iter().rev().map(|e| e.1));
+                poly.push(tl);
+                let candidates: Vec<u32> = match (below.is_empty(), above.is_empty()) {
+                    (false, true) => vec![tl, tr],
+                    (true, false) => vec![bl, br],
+                    _ => {
+                        // Both ends carry extras (a band of one row): split at mid-height first.
+                        return Err(MeshError::Triangulation {
+                            reason: "graded band with a single row".into(),
+                        });
+                    }
+                };
+                let best = candidates
+                    .iter()
+                    .map(|&apex| fan(&poly, apex))
+                    .min_by(|a, b| largest_angle(nodes, a).total_cmp(&largest_angle(nodes, b)))
+                    .unwrap_or_default();
+                triangles.extend(best);
+            }
+        }
+        Ok(())
+    }
+}
+
+/// The fan of a convex polygon (counter-clockwise node list) from its node `apex`.
+fn fan(poly: &[u32], apex: u32) -> Vec<[u32; 3]> {
+    let a = poly.iter().position(|&v| v == apex).unwrap_or(0);
+    let ring: Vec<u32> = poly[a..].iter().chain(&poly[..a]).copied().collect();
+    ring[1..]
+        .windows(2)
+        .map(|w| [ring[0], w[0], w[1]])
+        .collect()
+}
+
+fn largest_angle(nodes: &[Point], tris: &[[u32; 3]]) -> f64 {
+    tris.iter()
+        .map(|t| {
+            let c = t.map(|k| nodes[k as usize]);
+            crate::mesh::triangle_angles(c[0], c[1], c[2])
+                .into_iter()
+                .fold(0.0, f64::max)
+        })
+        .fold(0.0, f64::max)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn band() -> Band {
+        Band {
+            z_min: -1.0,
+            z_max: 1.0,
+            r_max: 0.05,
+            columns: vec![0.01, 0.02],
+            end_size: 0.01,
+            growth: 0.3,
+            max_size: 0.2,
+        }
+    }
+
+    #[test]
+    fn rows_grow_from_both_ends_and_stay_below_the_cap() {
+        let b = band();
+        let rows = b.rows();
+        assert_eq!(rows[0], -1.0);
+        assert_eq!(*rows.last().unwrap(), 1.0);
+        let steps: Vec<f64> = rows.windows(2).map(|w| w[1] - w[0]).collect();
+        assert!(
+            steps.iter().all(|&s| s > 0.0 && s <= 0.2 + 1e-12),
+            "{steps:?}"
+        );
+        assert!((steps[0] - 0.01).abs() < 1e-12);
+        // Symmetric about the middle.
+        for (a, b) in steps.iter().zip(steps.iter().rev()) {
+            assert!((a - b).abs() < 1e-12);
+        }
+        // Logarithmic: ten times longer costs only a few more rows.
+        let mut long = band();
+        long.z_min = -10.0;
+        long.z_max = 10.0;
+        long.max_size = 2.0;
+        assert!(
+            long.rows().len() < rows.len() + 20,
+            "{} {}",
+            long.rows().len(),
+            rows.len()
+        );
+    }
+
+    #[test]
+    fn tiles_cover_the_band_and_join_extra_edge_points() {
+        let b = band();
+        let rows = b.rows();
+        let mut nodes: Vec<Point> = b.outline(&rows);
+        nodes.pop();
+        // Extra points as a refinement would leave them: one on the outer edge, one on an end.
+        nodes.push([0.05, 0.5 * (rows[3] + rows[4])]);
+        nodes.push([0.015, -1.0]);
+        let edge: Vec<(u32, Point)> = nodes
+            .iter()
+            .enumerate()
+            .filter(|(_, p)| !b.on_inner_axis(**p))
+            .map(|(k, p)| (k as u32, *p))
+            .collect();
+        let mut tris = Vec::new();
+        b.tile(&edge, &mut nodes, &mut tris).unwrap();
+        let area: f64 = tris
+            .iter()
+            .map(|t| {
+                let c = t.map(|k| nodes[k as usize]);
+                crate::mesh::signed_area(c[0], c[1], c[2])
+            })
+            .inspect(|&a| assert!(a > 0.0))
+            .sum();
+        assert!((area - 0.05 * 2.0).abs() < 1e-12, "{area}");
+        // Every node of the end extra and the outer extra is used.
+        let used = |k: usize| tris.iter().any(|t| t.contains(&(k as u32)));
+        let extra_at = nodes.iter().position(|p| *p == [0.015, -1.0]).unwrap();
+        assert!(used(extra_at));
+    }
+}
