@@ -15,7 +15,36 @@
 //! joined by a fan inside its rectangle, so the two parts always conform.
 
 use crate::error::MeshError;
-use crate::spec::{Band, Point};
+use crate::shape::Outline;
+use crate::spec::{Band, MeshSpec, Point, Shape};
+
+/// `spec` with the ends of every band that follows a surface moved to the nearest vertices of
+/// that surface's polygon, so that the band's end edges meet the polygon at its vertices; `None`
+/// when no band follows a surface.
+pub(crate) fn snapped(spec: &MeshSpec) -> Option<MeshSpec> {
+    if spec.bands.iter().all(|b| b.surface.is_none()) {
+        return None;
+    }
+    let mut out = spec.clone();
+    for band in &mut out.bands {
+        let Some(surface) = band.surface else {
+            continue;
+        };
+        let outline = Outline::new(&surface, spec.arc_tolerance);
+        let nearest = |z: f64| {
+            outline
+                .vertices
+                .iter()
+                .filter(|p| p[0] > 0.0)
+                .map(|p| p[1])
+                .min_by(|a, b| (a - z).abs().total_cmp(&(b - z).abs()))
+                .unwrap_or(z)
+        };
+        band.z_min = nearest(band.z_min);
+        band.z_max = nearest(band.z_max);
+    }
+    Some(out)
+}
 
 /// Tolerance, relative to the band's extent, for a point to lie on one of its edges.
 const ON_EDGE: f64 = 1e-9;
@@ -47,6 +76,33 @@ impl Band {
         c
     }
 
+    /// Radius of column line `c` (its radius at the equator) at height z: itself for straight
+    /// columns; for a surface, scaled with the outline's radius inside it, and outside mapped
+    /// by a power of c that keeps r_max in place.
+    pub(crate) fn column_at(&self, c: f64, z: f64) -> f64 {
+        let Some(Shape::HalfEllipse {
+            z_centre,
+            radial,
+            axial,
+        }) = self.surface
+        else {
+            return c;
+        };
+        if c == 0.0 || c == self.r_max {
+            return c;
+        }
+        let u = ((z - z_centre) / axial).clamp(-1.0, 1.0);
+        let rho = radial * (1.0 - u * u).sqrt();
+        if c <= radial {
+            rho * (c / radial)
+        } else {
+            // A power of c/radial that reaches r_max: near a slender tip the air columns close
+            // in on the surface in proportion to its radius, keeping their geometric spacing.
+            let p = (self.r_max / rho).ln() / (self.r_max / radial).ln();
+            rho * (c / radial).powf(p)
+        }
+    }
+
     /// Row positions from `z_min` to `z_max`, graded symmetrically from both ends.
     pub(crate) fn rows(&self) -> Vec<f64> {
         let half = 0.5 * (self.z_max - self.z_min);
@@ -75,14 +131,33 @@ impl Band {
         rows
     }
 
+    /// Number of rows, counted up to `cap` (a band with no growth and a tiny end size would
+    /// otherwise allocate them all before the node cap could refuse it).
+    pub(crate) fn row_count(&self, cap: usize) -> usize {
+        let half = 0.5 * (self.z_max - self.z_min);
+        let mut s = 0.0;
+        let mut count = 0;
+        while s < half && count <= cap {
+            s += (self.end_size + self.growth * s).min(self.max_size);
+            count += 1;
+        }
+        2 * count + 1
+    }
+
     /// The band's outline as a closed chain (first point repeated at the end), counter-clockwise:
     /// along the lower end through the columns, up the outer edge through the rows, back along the
     /// upper end, down the axis through the rows.
     pub(crate) fn outline(&self, rows: &[f64]) -> Vec<Point> {
         let cols = self.all_columns();
-        let mut chain: Vec<Point> = cols.iter().map(|&r| [r, self.z_min]).collect();
+        let (lo, hi) = (self.z_min, self.z_max);
+        let mut chain: Vec<Point> = cols.iter().map(|&c| [self.column_at(c, lo), lo]).collect();
         chain.extend(rows[1..].iter().map(|&z| [self.r_max, z]));
-        chain.extend(cols.iter().rev().skip(1).map(|&r| [r, self.z_max]));
+        chain.extend(
+            cols.iter()
+                .rev()
+                .skip(1)
+                .map(|&c| [self.column_at(c, hi), hi]),
+        );
         chain.extend(rows.iter().rev().skip(1).map(|&z| [0.0, z]));
         chain
     }
@@ -98,7 +173,9 @@ impl Band {
         let t = self.tol();
         let cols = self.all_columns();
         let m = cols.len() - 1;
-        let is_col = |r: f64| cols.iter().any(|&c| (c - r).abs() <= t);
+        let ends = [self.z_min, self.z_max]
+            .map(|z| -> Vec<f64> { cols.iter().map(|&c| self.column_at(c, z)).collect() });
+        let is_col = |end: usize, r: f64| ends[end].iter().any(|&c| (c - r).abs() <= t);
         let mut rows = self.rows();
         // Points the refinement put on the outer edge become rows of their own.
         for &(_, p) in edge_nodes {
@@ -123,7 +200,8 @@ impl Band {
         };
         let mut idx = vec![vec![0u32; m + 1]; n + 1];
         for (i, &z) in rows.iter().enumerate() {
-            for (j, &r) in cols.iter().enumerate() {
+            for (j, &c) in cols.iter().enumerate() {
+                let r = self.column_at(c, z);
                 idx[i][j] = if i == 0 || i == n || j == m {
                     find(r, z)?
                 } else {
@@ -142,10 +220,10 @@ impl Band {
             } else {
                 continue;
             };
-            if is_col(p[0]) || p[0] < 0.0 || p[0] > self.r_max {
+            if is_col(end, p[0]) || p[0] < 0.0 || p[0] > self.r_max {
                 continue;
             }
-            let j = cols.partition_point(|&c| c < p[0]) - 1;
+            let j = ends[end].partition_point(|&c| c < p[0]) - 1;
             extras[end * m + j].push((p[0], k));
         }
         for e in &mut extras {
@@ -224,6 +302,7 @@ mod tests {
             end_size: 0.01,
             growth: 0.3,
             max_size: 0.2,
+            surface: None,
         }
     }
 

@@ -52,6 +52,9 @@ pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
 /// ```
 pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
     validate::check_numbers(spec)?;
+    let snapped = band::snapped(spec);
+    let spec = snapped.as_ref().unwrap_or(spec);
+    validate::check_numbers(spec)?;
     let graph = pslg::build(spec)?;
     refine::mesh_graph(spec, &graph)
 }

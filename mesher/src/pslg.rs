@@ -221,11 +221,16 @@ fn hollow_bands(
     for e in edges {
         let mid = midpoint(&vertices, e);
         if let Some(band) = held(mid) {
-            // A region side may run through along a column; nothing may end inside.
-            if let Some(b) = held(vertices[e[0]]).or(held(vertices[e[1]])) {
-                return Err(band_conflict(b, &owners[&e]));
-            }
-            if !owners[&e].iter().all(|o| matches!(o, Owner::Region(_))) {
+            // A region side may run through along a column, and the outline the band follows
+            // may lie inside it; nothing else may.
+            let surface = spec.bands[band].surface;
+            let inside_ok = owners[&e].iter().all(|o| match *o {
+                Owner::Region(i) => Some(spec.regions[i].shape) == surface,
+                _ => false,
+            });
+            let ends_inside = held(vertices[e[0]]).is_some() || held(vertices[e[1]]).is_some();
+            let only_regions = owners[&e].iter().all(|o| matches!(o, Owner::Region(_)));
+            if !only_regions || (ends_inside && !inside_ok) {
                 return Err(band_conflict(band, &owners[&e]));
             }
             continue;

@@ -150,12 +150,38 @@ fn check_bands(spec: &MeshSpec) -> Result<(), MeshError> {
                 value: far,
             });
         }
-        // Rows: at most the length over the end size.
-        let rows = (band.z_max - band.z_min) / band.end_size.min(band.max_size) + 3.0;
-        if rows * (band.columns.len() + 2) as f64 > spec.max_nodes as f64 {
+        match band.surface {
+            None => {}
+            Some(Shape::HalfEllipse {
+                z_centre,
+                radial,
+                axial,
+            }) => {
+                let on_column = band
+                    .columns
+                    .iter()
+                    .any(|&c| (c - radial).abs() <= 1e-9 * radial);
+                if !on_column || band.z_min <= z_centre - axial || band.z_max >= z_centre + axial {
+                    return Err(MeshError::BadSize {
+                        what:
+                            "band surface (its radius must be a column, its ends beyond the band's)",
+                        value: radial,
+                    });
+                }
+            }
+            Some(Shape::Rect { r_max, .. }) => {
+                return Err(MeshError::BadSize {
+                    what: "band surface (only half-ellipses)",
+                    value: r_max,
+                })
+            }
+        }
+        let per_row = band.columns.len() + 2;
+        let rows = band.row_count(spec.max_nodes / per_row);
+        if rows.saturating_mul(per_row) > spec.max_nodes {
             return Err(MeshError::TooManyNodes {
                 limit: spec.max_nodes,
-                reached: (rows * (band.columns.len() + 2) as f64).min(usize::MAX as f64) as usize,
+                reached: rows.saturating_mul(per_row),
             });
         }
         if ranges

@@ -1,11 +1,11 @@
-//! Axial grading of slender rods: the middle of a long rod core (and the windings and air beside
+//! Axial grading of slender cores: the middle of a long rod or prolate spheroid core (and the windings and air beside
 //! it) becomes a graded band of the mesher, whose rows grow with the distance from the nearer end
 //! zone, so that the mesh grows like the logarithm of the slenderness instead of linearly.
 //!
-//! Short rods are meshed exactly as before: a band is only made for rods with
+//! Short cores are meshed exactly as before: a band is only made for rods and spheroids with
 //! length/diameter ≥ [`MIN_SLENDERNESS`].
 
-use axicore_mesher::{Band, MeshSpec};
+use axicore_mesher::{Band, MeshSpec, Shape};
 
 use crate::case::{Case, CoreShape};
 
@@ -18,27 +18,47 @@ pub const MIN_SLENDERNESS: f64 = 64.0;
 /// diameters: there the corners' singular fields decide the mesh.
 pub const END_ZONE_DIAMETERS: f64 = 2.0;
 
+/// Length of the isotropic zone kept at each tip of a slender spheroid, in tip curvature radii:
+/// the tip refinement reaches about the local radius there.
+pub const TIP_ZONE_RADII: f64 = 5.0;
+
 /// Band outer radius as a fraction of the band's length: wide enough that the rows' largest
 /// spacing (the same length) makes no skinny triangles in the band's throw-away inside.
 const WIDTH_FRACTION: f64 = 0.125;
 
-/// The graded bands of a case (empty unless its core is a slender rod), for a spec whose
+/// The graded bands of a case (empty unless its core is a slender rod or spheroid), for a spec whose
 /// grading and sizes are already set; `core_size` is the core's element size and `f` the
 /// order-adjusted fineness.
 pub fn rod_bands(case: &Case, spec: &MeshSpec, core_size: f64, f: f64) -> Vec<Band> {
     let Some(core) = &case.core else {
         return Vec::new();
     };
-    let CoreShape::Rod { diameter, length } = core.shape else {
-        return Vec::new();
+    let (diameter, length, surface) = match core.shape {
+        CoreShape::Rod { diameter, length } => (diameter, length, None),
+        CoreShape::Spheroid { diameter, length } => (
+            diameter,
+            length,
+            Some(Shape::HalfEllipse {
+                z_centre: core.centre,
+                radial: 0.5 * diameter,
+                axial: 0.5 * length,
+            }),
+        ),
+        _ => return Vec::new(),
     };
     if length < MIN_SLENDERNESS * diameter {
         return Vec::new();
     }
-    let (r, c) = (0.5 * diameter, core.centre);
+    let (r, c, hl) = (0.5 * diameter, core.centre, 0.5 * length);
     let end = END_ZONE_DIAMETERS * diameter;
-    // Free intervals: the rod minus the end zones of its ends and of every winding end.
-    let mut free = vec![(c - 0.5 * length + end, c + 0.5 * length - end)];
+    // A spheroid has no corners: its band reaches close to the tips, where its columns follow
+    // the thinning outline (tip curvature radius r²/hl).
+    let core_end = match surface {
+        Some(_) => TIP_ZONE_RADII * r * r / hl,
+        None => end,
+    };
+    // Free intervals: the core minus the end zones of its ends and of every winding end.
+    let mut free = vec![(c - hl + core_end, c + hl - core_end)];
     for w in &case.windings {
         for z in [w.centre - 0.5 * w.length, w.centre + 0.5 * w.length] {
             free = free
@@ -65,6 +85,14 @@ pub fn rod_bands(case: &Case, spec: &MeshSpec, core_size: f64, f: f64) -> Vec<Ba
         if long < 4.0 * end {
             continue;
         }
+        // Rows start at the element size across the local radius (all of it for a rod).
+        let local = match surface {
+            Some(_) => {
+                let u = ((z_min - c).abs().max((z_max - c).abs()) / hl).min(1.0);
+                r * (1.0 - u * u).sqrt()
+            }
+            None => r,
+        };
         let r_max = (WIDTH_FRACTION * long).max(1.5 * widest);
         // Windings crossing the band's outer edge or lying beyond it are left to the Delaunay
         // part; only their sides inside become columns.
@@ -74,9 +102,10 @@ pub fn rod_bands(case: &Case, spec: &MeshSpec, core_size: f64, f: f64) -> Vec<Ba
             z_max,
             r_max,
             columns,
-            end_size: 0.5 * core_size,
+            end_size: 0.5 * core_size * (local / r),
             growth: spec.grading,
             max_size: r_max / f.max(0.5),
+            surface,
         });
     }
     bands
@@ -87,7 +116,9 @@ pub fn rod_bands(case: &Case, spec: &MeshSpec, core_size: f64, f: f64) -> Vec<Ba
 /// than their element size.
 fn columns(case: &Case, r: f64, r_max: f64, core_size: f64, grading: f64, f: f64) -> Vec<f64> {
     let inner = (r / core_size).ceil().max(1.0) as usize;
-    let mut cols: Vec<f64> = (1..=inner).map(|k| r * k as f64 / inner as f64).collect();
+    let mut cols: Vec<f64> = (1..inner).map(|k| r * k as f64 / inner as f64).collect();
+    // Exactly the radius: a surface band finds its outline's column by equality.
+    cols.push(r);
     let mut required: Vec<f64> = case
         .windings
         .iter()
