@@ -46,6 +46,10 @@ pub(crate) fn snapped(spec: &MeshSpec) -> Option<MeshSpec> {
     Some(out)
 }
 
+/// Columns of a surface-following band up to this many equatorial radii scale with the local
+/// radius of the surface; the rest blend linearly to the band's outer edge.
+const SCALED_RADII: f64 = 6.0;
+
 /// Tolerance, relative to the band's extent, for a point to lie on one of its edges.
 const ON_EDGE: f64 = 1e-9;
 
@@ -77,8 +81,8 @@ impl Band {
     }
 
     /// Radius of column line `c` (its radius at the equator) at height z: itself for straight
-    /// columns; for a surface, scaled with the outline's radius inside it, and outside mapped
-    /// by a power of c that keeps r_max in place.
+    /// columns; for a surface, scaled with the outline's radius up to a few equatorial radii,
+    /// blended linearly to r_max beyond.
     pub(crate) fn column_at(&self, c: f64, z: f64) -> f64 {
         let Some(Shape::HalfEllipse {
             z_centre,
@@ -93,13 +97,16 @@ impl Band {
         }
         let u = ((z - z_centre) / axial).clamp(-1.0, 1.0);
         let rho = radial * (1.0 - u * u).sqrt();
-        if c <= radial {
+        // Near the surface the columns scale with its radius, so a thinning tip keeps its
+        // columns close; beyond SCALED_RADII the rest blends linearly to r_max. A column then
+        // moves at most SCALED_RADII times as far as the surface from row to row, which bounds
+        // the shear of the cells (and their largest angle) near a tip.
+        let c1 = (SCALED_RADII * radial).min(0.5 * (radial + self.r_max));
+        if c <= c1 {
             rho * (c / radial)
         } else {
-            // A power of c/radial that reaches r_max: near a slender tip the air columns close
-            // in on the surface in proportion to its radius, keeping their geometric spacing.
-            let p = (self.r_max / rho).ln() / (self.r_max / radial).ln();
-            rho * (c / radial).powf(p)
+            let r1 = rho * (c1 / radial);
+            r1 + (c - c1) * (self.r_max - r1) / (self.r_max - c1)
         }
     }
 
@@ -210,7 +217,8 @@ impl Band {
                 };
             }
         }
-        // Points the refinement put on an end edge, by the cell they fall in.
+        // Points the refinement put on an end edge, by the cell they fall in, as fractions of
+        // the cell's width (columns may follow a surface, so the fraction is what carries over).
         let mut extras: Vec<Vec<(f64, u32)>> = vec![Vec::new(); 2 * m];
         for &(k, p) in edge_nodes {
             let end = if (p[1] - self.z_min).abs() <= t {
@@ -223,70 +231,134 @@ impl Band {
             if is_col(end, p[0]) || p[0] < 0.0 || p[0] > self.r_max {
                 continue;
             }
-            let j = ends[end].partition_point(|&c| c < p[0]) - 1;
-            extras[end * m + j].push((p[0], k));
+            let e = &ends[end];
+            let j = e.partition_point(|&c| c < p[0]) - 1;
+            extras[end * m + j].push(((p[0] - e[j]) / (e[j + 1] - e[j]), k));
         }
         for e in &mut extras {
             e.sort_by(|a, b| a.0.total_cmp(&b.0));
         }
+        let mut done = vec![vec![false; m]; n];
+        let mid = n / 2;
+        let at = |j: usize, frac: f64, z: f64| {
+            let (a, b) = (self.column_at(cols[j], z), self.column_at(cols[j + 1], z));
+            [a + frac * (b - a), z]
+        };
+        for j in 0..m {
+            // Lower end: carry the extra points up as short columns through the flat first
+            // rows, then join them to the two upper corners of the first cell tall enough.
+            let mut below = extras[j].clone();
+            let mut i = 0;
+            while !below.is_empty() {
+                let (bl, br, tr, tl) = (idx[i][j], idx[i][j + 1], idx[i + 1][j + 1], idx[i + 1][j]);
+                let width = nodes[br as usize][0] - nodes[bl as usize][0];
+                let tall = rows[i + 1] - rows[i] >= 0.5 * width;
+                done[i][j] = true;
+                let mut chain = vec![bl];
+                chain.extend(below.iter().map(|e| e.1));
+                chain.push(br);
+                if tall || i + 1 >= mid {
+                    zipper(&chain, [tl, tr], nodes, triangles);
+                    break;
+                }
+                let lifted: Vec<(f64, u32)> = below
+                    .iter()
+                    .map(|&(frac, _)| {
+                        nodes.push(at(j, frac, rows[i + 1]));
+                        (frac, (nodes.len() - 1) as u32)
+                    })
+                    .collect();
+                let mut upper = vec![tl];
+                upper.extend(lifted.iter().map(|e| e.1));
+                upper.push(tr);
+                ladder(&chain, &upper, triangles);
+                below = lifted;
+                i += 1;
+            }
+            // Upper end, mirrored.
+            let mut above = extras[m + j].clone();
+            let mut i = n - 1;
+            while !above.is_empty() {
+                let (bl, br, tr, tl) = (idx[i][j], idx[i][j + 1], idx[i + 1][j + 1], idx[i + 1][j]);
+                let width = nodes[tr as usize][0] - nodes[tl as usize][0];
+                let tall = rows[i + 1] - rows[i] >= 0.5 * width;
+                done[i][j] = true;
+                let mut chain = vec![tr];
+                chain.extend(above.iter().rev().map(|e| e.1));
+                chain.push(tl);
+                if tall || i <= mid {
+                    zipper(&chain, [br, bl], nodes, triangles);
+                    break;
+                }
+                let lowered: Vec<(f64, u32)> = above
+                    .iter()
+                    .map(|&(frac, _)| {
+                        nodes.push(at(j, frac, rows[i]));
+                        (frac, (nodes.len() - 1) as u32)
+                    })
+                    .collect();
+                let mut lower = vec![br];
+                lower.extend(lowered.iter().rev().map(|e| e.1));
+                lower.push(bl);
+                ladder(&chain, &lower, triangles);
+                above = lowered;
+                i -= 1;
+            }
+        }
         for i in 0..n {
             for j in 0..m {
-                let (bl, br, tr, tl) = (idx[i][j], idx[i][j + 1], idx[i + 1][j + 1], idx[i + 1][j]);
-                let below: &[(f64, u32)] = if i == 0 { &extras[j] } else { &[] };
-                let above: &[(f64, u32)] = if i == n - 1 { &extras[m + j] } else { &[] };
-                if below.is_empty() && above.is_empty() {
+                if !done[i][j] {
+                    let (bl, br, tr, tl) =
+                        (idx[i][j], idx[i][j + 1], idx[i + 1][j + 1], idx[i + 1][j]);
                     triangles.push([bl, br, tr]);
                     triangles.push([bl, tr, tl]);
-                    continue;
                 }
-                // A convex polygon with extra points on one or two opposite sides: a fan from a
-                // corner on neither of them has no degenerate triangle.
-                let mut poly = vec![bl];
-                poly.extend(below.iter().map(|e| e.1));
-                poly.extend([br, tr]);
-                poly.extend(above.iter().rev().map(|e| e.1));
-                poly.push(tl);
-                let candidates: Vec<u32> = match (below.is_empty(), above.is_empty()) {
-                    (false, true) => vec![tl, tr],
-                    (true, false) => vec![bl, br],
-                    _ => {
-                        // Both ends carry extras (a band of one row): split at mid-height first.
-                        return Err(MeshError::Triangulation {
-                            reason: "graded band with a single row".into(),
-                        });
-                    }
-                };
-                let best = candidates
-                    .iter()
-                    .map(|&apex| fan(&poly, apex))
-                    .min_by(|a, b| largest_angle(nodes, a).total_cmp(&largest_angle(nodes, b)))
-                    .unwrap_or_default();
-                triangles.extend(best);
             }
         }
         Ok(())
     }
 }
 
-/// The fan of a convex polygon (counter-clockwise node list) from its node `apex`.
-fn fan(poly: &[u32], apex: u32) -> Vec<[u32; 3]> {
-    let a = poly.iter().position(|&v| v == apex).unwrap_or(0);
-    let ring: Vec<u32> = poly[a..].iter().chain(&poly[..a]).copied().collect();
-    ring[1..]
-        .windows(2)
-        .map(|w| [ring[0], w[0], w[1]])
-        .collect()
+/// Two chains of equal length facing each other (`near` along one edge of a strip, `far`
+/// along the other, both in the counter-clockwise direction of `near`): the quadrilaterals
+/// between them, each cut into two triangles.
+fn ladder(near: &[u32], far: &[u32], triangles: &mut Vec<[u32; 3]>) {
+    for k in 0..near.len() - 1 {
+        // `far` runs in the opposite direction when walked counter-clockwise around a cell.
+        let (a, b) = (near[k], near[k + 1]);
+        let (c, d) = (far[k + 1], far[k]);
+        triangles.push([a, b, c]);
+        triangles.push([a, c, d]);
+    }
 }
 
-fn largest_angle(nodes: &[Point], tris: &[[u32; 3]]) -> f64 {
-    tris.iter()
-        .map(|t| {
-            let c = t.map(|k| nodes[k as usize]);
-            crate::mesh::triangle_angles(c[0], c[1], c[2])
-                .into_iter()
-                .fold(0.0, f64::max)
-        })
-        .fold(0.0, f64::max)
+/// A chain of points along one side of a cell (counter-clockwise) joined to the two corners of
+/// the opposite side, `[left, right]` as seen from the chain: the first half of the chain's
+/// segments to the corner across from its start, the rest to the other, and one triangle between.
+fn zipper(chain: &[u32], across: [u32; 2], nodes: &[Point], triangles: &mut Vec<[u32; 3]>) {
+    let [far_start, far_end] = across;
+    let (p0, p1) = (
+        nodes[chain[0] as usize],
+        nodes[chain[chain.len() - 1] as usize],
+    );
+    let half = 0.5 * (p0[0] + p1[0]);
+    let first = (p0[0] < p1[0]) as usize;
+    let mut split = chain.len() - 1;
+    for k in 0..chain.len() - 1 {
+        let mid_r = 0.5 * (nodes[chain[k] as usize][0] + nodes[chain[k + 1] as usize][0]);
+        let before = if first == 1 {
+            mid_r < half
+        } else {
+            mid_r > half
+        };
+        if before {
+            triangles.push([chain[k], chain[k + 1], far_start]);
+        } else {
+            split = split.min(k);
+            triangles.push([chain[k], chain[k + 1], far_end]);
+        }
+    }
+    triangles.push([chain[split], far_end, far_start]);
 }
 
 #[cfg(test)]

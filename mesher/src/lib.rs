@@ -63,9 +63,23 @@ pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
 /// area of each region, in order; for checking a mesh against its input.
 pub fn polygon_areas(spec: &MeshSpec) -> Result<(f64, Vec<f64>), MeshError> {
     validate::check_numbers(spec)?;
+    let snapped = band::snapped(spec);
+    let spec = snapped.as_ref().unwrap_or(spec);
     let graph = pslg::build(spec)?;
     Ok((
         graph.domain_area,
         graph.outlines.iter().map(|o| o.area()).collect(),
     ))
+}
+
+/// The axial extent (z_min, z_max) in m that each band of `spec` takes in the mesh: a band that
+/// follows a surface has its ends moved to vertices of that surface's polygon.
+pub fn band_extents(spec: &MeshSpec) -> Vec<(f64, f64)> {
+    band::snapped(spec)
+        .as_ref()
+        .unwrap_or(spec)
+        .bands
+        .iter()
+        .map(|b| (b.z_min, b.z_max))
+        .collect()
 }

@@ -105,8 +105,8 @@ pub struct Band {
     pub max_size: f64,
     /// `None`: straight columns. `Some(shape)`, a half-ellipse that is also a region: the column at
     /// its equatorial radius follows its outline (the band's ends snap to vertices of the region's
-    /// polygon), the columns inside it scale with its radius ρ(z), and those outside (c > radial)
-    /// lie at ρ(z)·(c/radial)^p with p chosen so that r_max stays in place.
+    /// polygon), the columns up to three equatorial radii scale with its radius ρ(z), and those
+    /// beyond blend linearly to r_max.
     pub surface: Option<Shape>,
 }
 

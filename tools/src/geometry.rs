@@ -181,7 +181,7 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
             .mesh
             .core_size
             .unwrap_or(core_thickness(&core.shape) / (3.0 * case.mesh.fineness));
-        spec.bands = crate::slender::rod_bands(case, &spec, size, f);
+        crate::slender::add_bands(case, &mut spec, size, f);
     }
     spec
 }

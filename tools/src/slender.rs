@@ -5,7 +5,7 @@
 //! Short cores are meshed exactly as before: a band is only made for rods and spheroids with
 //! length/diameter ≥ [`MIN_SLENDERNESS`].
 
-use axicore_mesher::{Band, MeshSpec, Shape};
+use axicore_mesher::{Band, MeshSpec, Refinement, Shape};
 
 use crate::case::{Case, CoreShape};
 
@@ -20,16 +20,40 @@ pub const END_ZONE_DIAMETERS: f64 = 2.0;
 
 /// Length of the isotropic zone kept at each tip of a slender spheroid, in tip curvature radii:
 /// the tip refinement reaches about the local radius there.
-pub const TIP_ZONE_RADII: f64 = 5.0;
+pub const TIP_ZONE_RADII: f64 = 20.0;
 
 /// Band outer radius as a fraction of the band's length: wide enough that the rows' largest
 /// spacing (the same length) makes no skinny triangles in the band's throw-away inside.
 const WIDTH_FRACTION: f64 = 0.125;
 
-/// The graded bands of a case (empty unless its core is a slender rod or spheroid), for a spec whose
-/// grading and sizes are already set; `core_size` is the core's element size and `f` the
+/// Adds the graded bands of a case (none unless its core is a slender rod or spheroid) to a spec
+/// whose grading and sizes are already set; `core_size` is the core's element size and `f` the
 /// order-adjusted fineness.
-pub fn rod_bands(case: &Case, spec: &MeshSpec, core_size: f64, f: f64) -> Vec<Band> {
+pub fn add_bands(case: &Case, spec: &mut MeshSpec, core_size: f64, f: f64) {
+    let bands = rod_bands(case, spec, core_size, f);
+    for band in &bands {
+        if let Some(Shape::HalfEllipse {
+            z_centre,
+            radial,
+            axial,
+        }) = band.surface
+        {
+            // Where a band meets a spheroid's tip zone, the Delaunay part resolves the local
+            // radius as the band's first row does.
+            for z in [band.z_min, band.z_max] {
+                let u = ((z - z_centre) / axial).clamp(-1.0, 1.0);
+                let rho = radial * (1.0 - u * u).sqrt();
+                spec.refinements.push(Refinement::Point {
+                    at: [rho, z],
+                    size: band.end_size,
+                });
+            }
+        }
+    }
+    spec.bands = bands;
+}
+
+fn rod_bands(case: &Case, spec: &MeshSpec, core_size: f64, f: f64) -> Vec<Band> {
     let Some(core) = &case.core else {
         return Vec::new();
     };
