@@ -73,7 +73,7 @@ fn check_estimate(name: &str, c: &Controlled, exact: f64, tolerance: f64) {
 #[test]
 fn spheroid_of_axis_ratio_300_matches_osborn_on_the_graded_default_mesh() {
     // χ = 1e4, N = 6.0e-5 (formula above), χN = 0.6: the moment hangs on the demagnetizing
-    // factor. Measured −9.3e-5 on the default mesh (18k nodes); tolerance 1e-3.
+    // factor. Measured −9.3e-5 on the default mesh (28k nodes); tolerance 1e-3.
     let (toml, want) = spheroid(300.0, 1e4);
     let out = solve(&toml, &RunOptions::default());
     let got = out.report.dipole_moment_Am2;
