@@ -15,6 +15,7 @@
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
+mod band;
 mod error;
 mod mesh;
 mod pslg;
@@ -28,7 +29,7 @@ pub use error::MeshError;
 pub use mesh::{aspect_ratio, signed_area, triangle_angles, Mesh, MeshStats, NodeKind};
 pub use pslg::MIN_INPUT_ANGLE_DEG;
 pub use refine::MAX_SIZE_PASSES;
-pub use spec::{MeshSpec, Point, Refinement, Region, Shape};
+pub use spec::{Band, MeshSpec, Point, Refinement, Region, Shape};
 pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
 
 /// Builds the mesh described by `spec`, or says which input is wrong.
@@ -51,6 +52,9 @@ pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
 /// ```
 pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
     validate::check_numbers(spec)?;
+    let snapped = band::snapped(spec);
+    let spec = snapped.as_ref().unwrap_or(spec);
+    validate::check_numbers(spec)?;
     let graph = pslg::build(spec)?;
     refine::mesh_graph(spec, &graph)
 }
@@ -59,9 +63,23 @@ pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
 /// area of each region, in order; for checking a mesh against its input.
 pub fn polygon_areas(spec: &MeshSpec) -> Result<(f64, Vec<f64>), MeshError> {
     validate::check_numbers(spec)?;
+    let snapped = band::snapped(spec);
+    let spec = snapped.as_ref().unwrap_or(spec);
     let graph = pslg::build(spec)?;
     Ok((
         graph.domain_area,
         graph.outlines.iter().map(|o| o.area()).collect(),
     ))
+}
+
+/// The axial extent (z_min, z_max) in m that each band of `spec` takes in the mesh: a band that
+/// follows a surface has its ends moved to vertices of that surface's polygon.
+pub fn band_extents(spec: &MeshSpec) -> Vec<(f64, f64)> {
+    band::snapped(spec)
+        .as_ref()
+        .unwrap_or(spec)
+        .bands
+        .iter()
+        .map(|b| (b.z_min, b.z_max))
+        .collect()
 }

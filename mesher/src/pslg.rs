@@ -30,6 +30,7 @@ enum Owner {
     Arc(usize),
     Outer,
     Axis,
+    Band(usize),
 }
 
 /// Vertices and constraint edges, ready for the triangulator.
@@ -135,6 +136,9 @@ pub(crate) fn build(spec: &MeshSpec) -> Result<Pslg, MeshError> {
     for (k, chain) in arc_chains.into_iter().enumerate() {
         chains.push((Owner::Arc(k), chain));
     }
+    for (k, band) in spec.bands.iter().enumerate() {
+        chains.push((Owner::Band(k), band.outline(&band.rows())));
+    }
     chains.push((Owner::Outer, outer.clone()));
     chains.push((Owner::Axis, vec![[0.0, -radius], [0.0, radius]]));
 
@@ -189,6 +193,7 @@ pub(crate) fn build(spec: &MeshSpec) -> Result<Pslg, MeshError> {
     check_region_overlaps(&vertices, &pieces, &outlines)?;
     check_arcs(&vertices, &pieces, &outlines)?;
     check_input_angles(&vertices, &edges)?;
+    let (vertices, edges) = hollow_bands(spec, vertices, edges, &edge_owners)?;
 
     Ok(Pslg {
         vertices,
@@ -197,6 +202,65 @@ pub(crate) fn build(spec: &MeshSpec) -> Result<Pslg, MeshError> {
         // The chain closes along the axis from its top end back to its bottom end.
         domain_area: polygon_area(&outer),
     })
+}
+
+/// Takes out what lies inside the graded bands (their grid replaces it after triangulation): edges
+/// through a band's inside (region sides along its columns) and vertices strictly inside. Any
+/// other input reaching inside a band is an error.
+fn hollow_bands(
+    spec: &MeshSpec,
+    vertices: Vec<Point>,
+    edges: Vec<[usize; 2]>,
+    owners: &BTreeMap<[usize; 2], Vec<Owner>>,
+) -> Result<(Vec<Point>, Vec<[usize; 2]>), MeshError> {
+    if spec.bands.is_empty() {
+        return Ok((vertices, edges));
+    }
+    let held = |p: Point| spec.bands.iter().position(|b| b.holds(p));
+    let mut kept = Vec::with_capacity(edges.len());
+    for e in edges {
+        let mid = midpoint(&vertices, e);
+        if let Some(band) = held(mid) {
+            // A region side may run through along a column, and the outline the band follows
+            // may lie inside it; nothing else may.
+            let surface = spec.bands[band].surface;
+            let inside_ok = owners[&e].iter().all(|o| match *o {
+                Owner::Region(i) => Some(spec.regions[i].shape) == surface,
+                _ => false,
+            });
+            let ends_inside = held(vertices[e[0]]).is_some() || held(vertices[e[1]]).is_some();
+            let only_regions = owners[&e].iter().all(|o| matches!(o, Owner::Region(_)));
+            if !only_regions || (ends_inside && !inside_ok) {
+                return Err(band_conflict(band, &owners[&e]));
+            }
+            continue;
+        }
+        kept.push(e);
+    }
+    let mut index = vec![usize::MAX; vertices.len()];
+    let mut out = Vec::with_capacity(vertices.len());
+    for (k, &p) in vertices.iter().enumerate() {
+        if held(p).is_none() {
+            index[k] = out.len();
+            out.push(p);
+        }
+    }
+    let mut edges = Vec::with_capacity(kept.len());
+    for e in kept {
+        let (a, b) = (index[e[0]], index[e[1]]);
+        if a == usize::MAX || b == usize::MAX {
+            let band = held(vertices[e[0]]).or(held(vertices[e[1]])).unwrap_or(0);
+            return Err(band_conflict(band, &owners[&e]));
+        }
+        edges.push([a, b]);
+    }
+    Ok((out, edges))
+}
+
+fn band_conflict(band: usize, owners: &[Owner]) -> MeshError {
+    MeshError::Triangulation {
+        reason: format!("graded band {band} is entered by {owners:?} off its columns"),
+    }
 }
 
 /// Strictly inside the convex outer polygon (the chain runs counter-clockwise, closed by the axis).
@@ -306,6 +370,7 @@ fn conflict(a: Owner, b: Owner) -> MeshError {
     match (a, b) {
         (Owner::Region(i), Owner::Region(j)) => MeshError::Overlap { a: i, b: j },
         (Owner::Region(region), Owner::Arc(arc)) => MeshError::ArcCrossesRegion { arc, region },
+        (Owner::Region(_), Owner::Band(band)) => band_conflict(band, &[a]),
         (Owner::Region(region), _) => MeshError::OutsideDomain { region },
         (x, y) => MeshError::Triangulation {
             reason: format!("constraints of {x:?} and {y:?} cross"),

@@ -87,7 +87,7 @@ fn triangulate_and_refine(spec: &MeshSpec, pslg: &Pslg) -> Result<Mesh, MeshErro
                 reached: cdt.num_vertices(),
             });
         }
-        let oversized = oversized_centroids(&cdt, &field);
+        let oversized = oversized_centroids(&cdt, &field, &spec.bands);
         if oversized.is_empty() {
             break;
         }
@@ -108,7 +108,91 @@ fn triangulate_and_refine(spec: &MeshSpec, pslg: &Pslg) -> Result<Mesh, MeshErro
         }
         passes += 1;
     }
-    Ok(extract(&cdt, &field, spec.background_tag, &spec.regions))
+    let mesh = extract(&cdt, &field, spec.background_tag, &spec.regions);
+    if spec.bands.is_empty() {
+        return Ok(mesh);
+    }
+    let mesh = splice_bands(mesh, spec, &field)?;
+    if mesh.nodes.len() > limit {
+        return Err(MeshError::TooManyNodes {
+            limit: spec.max_nodes,
+            reached: mesh.nodes.len(),
+        });
+    }
+    Ok(mesh)
+}
+
+/// Replaces the throw-away triangles inside the graded bands by their grids.
+fn splice_bands(mesh: Mesh, spec: &MeshSpec, field: &SizeField) -> Result<Mesh, MeshError> {
+    let inside = |p: Point| spec.bands.iter().any(|b| b.holds(p) || b.on_inner_axis(p));
+    let mut index = vec![u32::MAX; mesh.nodes.len()];
+    let mut nodes = Vec::with_capacity(mesh.nodes.len());
+    let mut node_kinds = Vec::with_capacity(mesh.nodes.len());
+    for (k, &p) in mesh.nodes.iter().enumerate() {
+        if !inside(p) {
+            index[k] = nodes.len() as u32;
+            nodes.push(p);
+            node_kinds.push(mesh.node_kinds[k]);
+        }
+    }
+    let mut triangles = Vec::with_capacity(mesh.triangles.len());
+    for (t, tri) in mesh.triangles.iter().enumerate() {
+        let c = mesh.corners(t);
+        let centre = [
+            (c[0][0] + c[1][0] + c[2][0]) / 3.0,
+            (c[0][1] + c[1][1] + c[2][1]) / 3.0,
+        ];
+        if spec.bands.iter().any(|b| b.holds(centre)) {
+            continue;
+        }
+        let mapped = tri.map(|k| index[k as usize]);
+        if mapped.contains(&u32::MAX) {
+            return Err(MeshError::Triangulation {
+                reason: "a triangle outside a graded band uses a point inside it".into(),
+            });
+        }
+        triangles.push(mapped);
+    }
+    for band in &spec.bands {
+        let t = band.tol();
+        let edge_nodes: Vec<(u32, Point)> = nodes
+            .iter()
+            .enumerate()
+            .filter(|(_, p)| {
+                let on_end = (p[1] - band.z_min).abs() <= t || (p[1] - band.z_max).abs() <= t;
+                let on_outer = (p[0] - band.r_max).abs() <= t;
+                (on_end && p[0] >= -t && p[0] <= band.r_max + t)
+                    || (on_outer && p[1] >= band.z_min - t && p[1] <= band.z_max + t)
+            })
+            .map(|(k, p)| (k as u32, *p))
+            .collect();
+        band.tile(&edge_nodes, &mut nodes, &mut triangles)?;
+    }
+    node_kinds.resize(nodes.len(), NodeKind::Interior);
+    for (kind, p) in node_kinds.iter_mut().zip(&nodes) {
+        if p[0] == 0.0 {
+            *kind = NodeKind::Axis;
+        }
+    }
+    let tags = triangles
+        .iter()
+        .map(|tri| {
+            let c = tri.map(|k| nodes[k as usize]);
+            let centre = [
+                (c[0][0] + c[1][0] + c[2][0]) / 3.0,
+                (c[0][1] + c[1][1] + c[2][1]) / 3.0,
+            ];
+            field
+                .region_at(centre)
+                .map_or(spec.background_tag, |i| spec.regions[i].tag)
+        })
+        .collect();
+    Ok(Mesh {
+        nodes,
+        triangles,
+        tags,
+        node_kinds,
+    })
 }
 
 fn centroid(p: [Point2<f64>; 3]) -> Point2<f64> {
@@ -123,6 +207,7 @@ fn centroid(p: [Point2<f64>; 3]) -> Point2<f64> {
 fn oversized_centroids(
     cdt: &Cdt,
     field: &SizeField,
+    bands: &[crate::Band],
 ) -> Vec<(Point2<f64>, spade::handles::FixedVertexHandle)> {
     let floor2 = field.floor() * field.floor();
     let mut out = Vec::new();
@@ -136,6 +221,10 @@ fn oversized_centroids(
         }
         let c = centroid(p);
         let at = [c.x, c.y];
+        // Inside a band the triangles are thrown away: their size does not matter.
+        if bands.iter().any(|b| b.holds(at)) {
+            continue;
+        }
         if field.exceeded_by(longest2.sqrt(), at, field.region_at(at)) {
             out.push((c, face.vertices()[0].fix()));
         }

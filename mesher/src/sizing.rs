@@ -2,7 +2,7 @@
 //! `size_f + grading · dist(x, f)` over the refinement features f.
 
 use crate::shape::{bounding_box, box_distance, segment_distance, Outline};
-use crate::spec::{MeshSpec, Point, Refinement};
+use crate::spec::{Band, MeshSpec, Point, Refinement};
 
 /// A boundary feature: the non-axis segments of a region outline.
 struct Boundary {
@@ -88,6 +88,35 @@ impl Cloud {
     }
 }
 
+/// The parts of `segments` outside every band: inside one, the band's rows grade the size along
+/// the outline instead (a boundary refinement there would ask the triangles beside the band for
+/// the fine size all along it).
+fn outside_bands(segments: Vec<[Point; 2]>, bands: &[Band]) -> Vec<[Point; 2]> {
+    let mut pieces = segments;
+    for band in bands {
+        let mut next = Vec::with_capacity(pieces.len());
+        for [a, b] in pieces {
+            let mut cuts = vec![0.0, 1.0];
+            for z in [band.z_min, band.z_max] {
+                let t = (z - a[1]) / (b[1] - a[1]);
+                if t > 0.0 && t < 1.0 {
+                    cuts.push(t);
+                }
+            }
+            cuts.sort_by(f64::total_cmp);
+            let at = |t: f64| [a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])];
+            for w in cuts.windows(2) {
+                let (p, q) = (at(w[0]), at(w[1]));
+                if !band.holds([0.5 * (p[0] + q[0]), 0.5 * (p[1] + q[1])]) {
+                    next.push([p, q]);
+                }
+            }
+        }
+        pieces = next;
+    }
+    pieces
+}
+
 /// Target element size as a function of position.
 pub(crate) struct SizeField<'a> {
     far: f64,
@@ -118,6 +147,10 @@ impl<'a> SizeField<'a> {
                         // On r = 0 the outline is the axis of revolution, not a surface.
                         .filter(|s| !(s[0][0] == 0.0 && s[1][0] == 0.0))
                         .collect();
+                    let segments = outside_bands(segments, &spec.bands);
+                    if segments.is_empty() {
+                        continue;
+                    }
                     let ends: Vec<Point> = segments.iter().flatten().copied().collect();
                     boundaries.push(Boundary {
                         bbox: bounding_box(&ends),

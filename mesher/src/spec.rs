@@ -80,6 +80,36 @@ pub enum Refinement {
     },
 }
 
+/// A graded band: the middle of a slender body of revolution, r in [0, r_max], z in [z_min, z_max],
+/// meshed as a grid of rectangles (each cut into two right triangles) instead of Delaunay triangles.
+/// Rows are `end_size` apart at both band ends and grow by `growth` per unit distance from the
+/// nearer end up to `max_size`, so a band of any length costs a number of rows that grows like the
+/// logarithm of its length. Its elements are stretched along z and exempt from the angle floor;
+/// use it only where the field varies slowly along z (away from ends and corners).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Band {
+    /// Lower axial end (m).
+    pub z_min: f64,
+    /// Upper axial end (m), > z_min.
+    pub z_max: f64,
+    /// Outer radius (m); the Delaunay part of the mesh joins the band along r = r_max and its ends.
+    pub r_max: f64,
+    /// Radii of the grid's column lines strictly between 0 and r_max (m), increasing. Every region
+    /// side that runs through the band must lie on one of them; no other region or arc may enter it.
+    pub columns: Vec<f64>,
+    /// Axial spacing of the rows at both band ends (m).
+    pub end_size: f64,
+    /// Growth of the axial spacing per unit distance from the nearer band end (dimensionless).
+    pub growth: f64,
+    /// Largest axial spacing (m).
+    pub max_size: f64,
+    /// `None`: straight columns. `Some(shape)`, a half-ellipse that is also a region: the column at
+    /// its equatorial radius follows its outline (the band's ends snap to vertices of the region's
+    /// polygon), the columns up to three equatorial radii scale with its radius ρ(z), and those
+    /// beyond blend linearly to r_max.
+    pub surface: Option<Shape>,
+}
+
 /// Everything [`crate::build_mesh`] needs.
 #[derive(Debug, Clone, PartialEq)]
 pub struct MeshSpec {
@@ -109,6 +139,8 @@ pub struct MeshSpec {
     pub arc_tolerance: f64,
     /// Largest number of nodes allowed; reaching it is an error.
     pub max_nodes: usize,
+    /// Graded bands (stretched elements along slender bodies); empty by default.
+    pub bands: Vec<Band>,
 }
 
 impl MeshSpec {
@@ -137,6 +169,7 @@ impl MeshSpec {
             angle_floor_deg: Self::DEFAULT_ANGLE_FLOOR_DEG,
             arc_tolerance: Self::DEFAULT_ARC_TOLERANCE,
             max_nodes: Self::DEFAULT_MAX_NODES,
+            bands: Vec::new(),
         }
     }
 }

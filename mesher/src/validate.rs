@@ -85,6 +85,7 @@ pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
             });
         }
     }
+    check_bands(spec)?;
     for (k, refinement) in spec.refinements.iter().enumerate() {
         match *refinement {
             Refinement::Point { at, size } => {
@@ -110,6 +111,89 @@ pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
                 }
             }
         }
+    }
+    Ok(())
+}
+
+/// Bands: finite, positive sizes, increasing columns inside, inside the domain, apart from each
+/// other, and a grid that fits under the node cap.
+fn check_bands(spec: &MeshSpec) -> Result<(), MeshError> {
+    let mut ranges: Vec<(f64, f64)> = Vec::new();
+    for band in &spec.bands {
+        finite("band z_min", band.z_min)?;
+        finite("band z_max", band.z_max)?;
+        positive("band length", band.z_max - band.z_min)?;
+        positive("band r_max", band.r_max)?;
+        positive("band end_size", band.end_size)?;
+        positive("band max_size", band.max_size)?;
+        finite("band growth", band.growth)?;
+        if band.growth < 0.0 {
+            return Err(MeshError::BadSize {
+                what: "band growth",
+                value: band.growth,
+            });
+        }
+        let mut last = 0.0;
+        for &c in &band.columns {
+            if !(c.is_finite() && c > last && c < band.r_max) {
+                return Err(MeshError::BadSize {
+                    what: "band column (increasing, between 0 and r_max)",
+                    value: c,
+                });
+            }
+            last = c;
+        }
+        let far = band.r_max.hypot(band.z_min.abs().max(band.z_max.abs()));
+        if far >= spec.outer_radius * (1.0 - OUTER_ARC_TOLERANCE) {
+            return Err(MeshError::BadSize {
+                what: "band extent (must be inside the outer polygon)",
+                value: far,
+            });
+        }
+        match band.surface {
+            None => {}
+            Some(Shape::HalfEllipse {
+                z_centre,
+                radial,
+                axial,
+            }) => {
+                let on_column = band
+                    .columns
+                    .iter()
+                    .any(|&c| (c - radial).abs() <= 1e-9 * radial);
+                if !on_column || band.z_min <= z_centre - axial || band.z_max >= z_centre + axial {
+                    return Err(MeshError::BadSize {
+                        what:
+                            "band surface (its radius must be a column, its ends beyond the band's)",
+                        value: radial,
+                    });
+                }
+            }
+            Some(Shape::Rect { r_max, .. }) => {
+                return Err(MeshError::BadSize {
+                    what: "band surface (only half-ellipses)",
+                    value: r_max,
+                })
+            }
+        }
+        let per_row = band.columns.len() + 2;
+        let rows = band.row_count(spec.max_nodes / per_row);
+        if rows.saturating_mul(per_row) > spec.max_nodes {
+            return Err(MeshError::TooManyNodes {
+                limit: spec.max_nodes,
+                reached: rows.saturating_mul(per_row),
+            });
+        }
+        if ranges
+            .iter()
+            .any(|&(lo, hi)| band.z_min < hi && lo < band.z_max)
+        {
+            return Err(MeshError::BadSize {
+                what: "band z_min (bands must not overlap along z)",
+                value: band.z_min,
+            });
+        }
+        ranges.push((band.z_min, band.z_max));
     }
     Ok(())
 }

@@ -176,5 +176,12 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
             size,
         });
     }
+    if let Some(core) = &case.core {
+        let size = case
+            .mesh
+            .core_size
+            .unwrap_or(core_thickness(&core.shape) / (3.0 * case.mesh.fineness));
+        crate::slender::add_bands(case, &mut spec, size, f);
+    }
     spec
 }

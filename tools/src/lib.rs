@@ -21,6 +21,7 @@ pub mod progress;
 pub mod ramp;
 
 pub mod report;
+pub mod slender;
 pub mod study;
 pub mod suggest;
 pub mod units;
