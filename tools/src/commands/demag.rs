@@ -29,8 +29,8 @@ pub struct DemagArgs {
     /// Length/diameter values "FROM..TO:N[:log]" (default 0.1..1000:13:log).
     #[arg(long, value_name = "FROM..TO:N[:log]")]
     gamma: Option<String>,
-    /// Susceptibilities χ = μr − 1, "v1,v2,…" (0 = a uniformly magnetized core; default
-    /// 0,1,10,…,1e6).
+    /// Susceptibilities χ = μr − 1, "v1,v2,…", items may be ranges "FROM..TO:N[:log]"
+    /// (0 = a uniformly magnetized core; default 0,1..1e6:7:log).
     #[arg(long, value_name = "v1,v2,…")]
     chi: Option<String>,
     /// Bore/diameter ratios "v1,v2,…" (0 = solid rod; above 0 a tube): a third axis.
@@ -50,8 +50,10 @@ pub struct DemagArgs {
     /// Mesh fineness of each point's first level.
     #[arg(long, value_name = "F", default_value_t = 1.0)]
     fineness: f64,
-    /// Node cap per point.
-    #[arg(long, value_name = "N", default_value_t = 2_000_000)]
+    /// Node cap per point: a point that would need more stops there with its error bar and
+    /// `tolerance_reached` false (uniformly magnetized slender rods need very fine meshes
+    /// for Nf, a small difference of two nearly equal fields).
+    #[arg(long, value_name = "N", default_value_t = 400_000)]
     max_nodes: usize,
     /// The study's CSV file (a sweep file: rows go to FILE.partial as points finish; a
     /// rerun resumes).
@@ -77,17 +79,30 @@ pub struct DemagArgs {
     shard: Option<String>,
 }
 
+/// A list of numbers "v1,v2,…" whose items may also be ranges "FROM..TO:N[:log]", e.g.
+/// "0,1..1e6:7:log".
 fn list_axis(key: &str, text: &str) -> Result<Axis, Failure> {
-    let mut a = grid::parse_list(&format!("{key}={text}")).map_err(Failure::input)?;
-    for v in &mut a.values {
-        if let toml::Value::String(s) = v {
-            return Err(Failure::input(format!("--{key}: '{s}' is not a number")));
-        }
-        if let toml::Value::Float(x) = v {
-            *v = toml::Value::Float(*x);
+    let fault = |why: String| Failure::input(format!("--{}: {why}", key.replace('_', "-")));
+    let mut values = Vec::new();
+    for item in text.split(',').map(str::trim).filter(|i| !i.is_empty()) {
+        if item.contains("..") {
+            let range = grid::parse_range(&format!("{key}={item}"))
+                .map_err(|e| fault(e.replacen("--vary: ", "", 1)))?;
+            values.extend(range.values);
+        } else {
+            let x: f64 = item
+                .parse()
+                .map_err(|_| fault(format!("'{item}' is not a number")))?;
+            values.push(toml::Value::Float(x));
         }
     }
-    Ok(a)
+    if values.is_empty() {
+        return Err(fault(format!("'{text}' lists no values")));
+    }
+    Ok(Axis {
+        key: key.to_string(),
+        values,
+    })
 }
 
 fn check_positive(what: &str, x: f64, upper: f64) -> Result<(), Failure> {

@@ -98,6 +98,11 @@ pub fn point_case(body: Body, chi: f64, fineness: f64, max_nodes: usize) -> Stri
     )
 }
 
+/// A goal; the mid-plane quantities are point values of A (see [`Goal`]).
+fn goal(of: fn(&Report) -> f64, point_value: bool) -> Goal {
+    Goal { of, point_value }
+}
+
 fn core_moment(r: &Report) -> f64 {
     r.core_dipole_moment_Am2
 }
@@ -146,9 +151,12 @@ impl DemagStudy {
         let case = parse_case(&text, "(study point)").map_err(|e| e.to_string())?;
         let (drive, goals): (Drive, [Goal; 2]) = if chi > 0.0 {
             let h0 = B0 / axicore_solver::MU0;
-            (Drive::Uniform { h0, chi }, [core_moment, mid_flux])
+            (
+                Drive::Uniform { h0, chi },
+                [goal(core_moment, false), goal(mid_flux, true)],
+            )
         } else {
-            (Drive::Magnetized, [mean_h, mid_h])
+            (Drive::Magnetized, [goal(mean_h, false), goal(mid_h, true)])
         };
         let caps = Caps {
             max_nodes: self.max_nodes,
