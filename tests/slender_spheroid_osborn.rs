@@ -12,6 +12,7 @@ mod common;
 use axicore::accuracy::{run_to_tolerance, Caps, Controlled, Refine};
 use axicore::case::parse_case;
 use axicore::pipeline::RunOptions;
+use axicore_formulas as reference;
 use common::{rel, solve};
 
 /// Spheroid of axis ratio `m`, 2 mm equatorial diameter, χ = `chi`, in B0 = 1 mT; with Osborn's
