@@ -176,7 +176,7 @@ pub fn deviation_map_svg(
             let label = if *c == 0.0 {
                 "0 (M fixed)".to_string()
             } else {
-                format!("{c:e}")
+                crate::report::format::sig(*c, 3)
             };
             root.draw(&Text::new(label, (8, y), font.clone()))
                 .map_err(err)?;
