@@ -52,7 +52,7 @@ pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
 /// ```
 pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
     validate::check_numbers(spec)?;
-    let snapped = band::snapped(spec);
+    let snapped = band::prepared(spec);
     let spec = snapped.as_ref().unwrap_or(spec);
     validate::check_numbers(spec)?;
     let graph = pslg::build(spec)?;
@@ -63,7 +63,7 @@ pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
 /// area of each region, in order; for checking a mesh against its input.
 pub fn polygon_areas(spec: &MeshSpec) -> Result<(f64, Vec<f64>), MeshError> {
     validate::check_numbers(spec)?;
-    let snapped = band::snapped(spec);
+    let snapped = band::prepared(spec);
     let spec = snapped.as_ref().unwrap_or(spec);
     let graph = pslg::build(spec)?;
     Ok((
@@ -75,7 +75,7 @@ pub fn polygon_areas(spec: &MeshSpec) -> Result<(f64, Vec<f64>), MeshError> {
 /// The axial extent (z_min, z_max) in m that each band of `spec` takes in the mesh: a band that
 /// follows a surface has its ends moved to vertices of that surface's polygon.
 pub fn band_extents(spec: &MeshSpec) -> Vec<(f64, f64)> {
-    band::snapped(spec)
+    band::prepared(spec)
         .as_ref()
         .unwrap_or(spec)
         .bands
