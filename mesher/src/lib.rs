@@ -5,7 +5,9 @@
 //! check the numbers (`validate.rs`), polygonise shapes (`shape.rs`) and build a crossing-free planar
 //! graph (`pslg.rs`), triangulate with spade's constrained Delaunay triangulation and refine for angles
 //! and sizes (`refine.rs`, sizes from `sizing.rs`), then tag each triangle by the region holding its
-//! centroid (`mesh.rs` holds the result).
+//! centroid (`mesh.rs` holds the result). Graded bands (`band.rs`) along slender bodies are
+//! triangulated as stretched rectangles and spliced in after refinement; their triangles are exempt
+//! from the angle floor.
 //!
 //! Geometry conventions: r is the first coordinate, z the second, metres throughout. Curved outlines
 //! are polygons whose vertices lie on the exact curve, with relative chord sagitta (sagitta divided by
