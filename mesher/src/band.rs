@@ -7,12 +7,16 @@
 //! giving a row count that grows like the logarithm of the band's length. Columns are fixed lines
 //! r = const (the core's radius, the windings' radii, a few in between), so every rectangle is
 //! cut into two right triangles: angles are 90° and two complements, however long the rectangle.
+//! A band may instead follow a half-ellipse (a slender spheroid): its columns then bend with the
+//! outline's radius (`column_at`), and the cells are trapezoids.
 //!
 //! The triangulator does not mesh the band: its outline enters the constrained triangulation as
 //! constraint edges, the Delaunay refinement fills its inside with throw-away points, and after
 //! refinement everything strictly inside is dropped and replaced by the grid. The refinement may
 //! have split the band's edges; a point on the outer edge adds a row, a point on an end edge is
-//! joined by a fan inside its rectangle, so the two parts always conform.
+//! carried through the flat first rows as a short column (`ladder`) and joined to the corners of
+//! the first cell tall enough (`zipper`), so the two parts always conform without flat
+//! triangles with an angle near 180°.
 
 use crate::error::MeshError;
 use crate::shape::Outline;
