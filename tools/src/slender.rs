@@ -135,7 +135,7 @@ fn rod_bands(case: &Case, spec: &MeshSpec, core_size: f64, f: f64) -> Vec<Band> 
             columns,
             end_size: 0.5 * core_size * (local / r),
             growth: spec.grading,
-            max_size: r_max / f.max(0.5),
+            max_size: r_max / f,
             surface,
         });
     }
