@@ -7,26 +7,44 @@
 //! giving a row count that grows like the logarithm of the band's length. Columns are fixed lines
 //! r = const (the core's radius, the windings' radii, a few in between), so every rectangle is
 //! cut into two right triangles: angles are 90° and two complements, however long the rectangle.
+//! A band may instead follow a half-ellipse (a slender spheroid): its columns then bend with the
+//! outline's radius (`column_at`), and the cells are trapezoids.
 //!
 //! The triangulator does not mesh the band: its outline enters the constrained triangulation as
 //! constraint edges, the Delaunay refinement fills its inside with throw-away points, and after
 //! refinement everything strictly inside is dropped and replaced by the grid. The refinement may
 //! have split the band's edges; a point on the outer edge adds a row, a point on an end edge is
-//! joined by a fan inside its rectangle, so the two parts always conform.
+//! carried through the flat first rows as a short column (`ladder`) and joined to the corners of
+//! the first cell tall enough (`zipper`), so the two parts always conform without flat
+//! triangles with an angle near 180°.
 
 use crate::error::MeshError;
 use crate::shape::Outline;
-use crate::spec::{Band, MeshSpec, Point, Shape};
+use crate::spec::{Band, MeshSpec, Point, Refinement, Shape};
 
-/// `spec` with the ends of every band that follows a surface moved to the nearest vertices of
-/// that surface's polygon, so that the band's end edges meet the polygon at its vertices; `None`
-/// when no band follows a surface.
-pub(crate) fn snapped(spec: &MeshSpec) -> Option<MeshSpec> {
-    if spec.bands.iter().all(|b| b.surface.is_none()) {
+/// `spec` as the mesh is built from it, `None` when that is `spec` itself: bands refined where
+/// cloud refinement points inside them ask for smaller cells (see [`Band::refined_by`]), and the
+/// ends of every band that follows a surface moved to the nearest vertices of that surface's
+/// polygon, so that the band's end edges meet the polygon at its vertices.
+pub(crate) fn prepared(spec: &MeshSpec) -> Option<MeshSpec> {
+    let cloud: Vec<(Point, f64)> = spec
+        .refinements
+        .iter()
+        .flat_map(|r| match r {
+            Refinement::Cloud { points } => points.as_slice(),
+            _ => &[],
+        })
+        .copied()
+        .collect();
+    let refined: Vec<Option<Band>> = spec.bands.iter().map(|b| b.refined_by(&cloud)).collect();
+    if spec.bands.iter().all(|b| b.surface.is_none()) && refined.iter().all(Option::is_none) {
         return None;
     }
     let mut out = spec.clone();
-    for band in &mut out.bands {
+    for (band, finer) in out.bands.iter_mut().zip(refined) {
+        if let Some(finer) = finer {
+            *band = finer;
+        }
         let Some(surface) = band.surface else {
             continue;
         };
@@ -45,6 +63,9 @@ pub(crate) fn snapped(spec: &MeshSpec) -> Option<MeshSpec> {
     }
     Some(out)
 }
+
+/// Most subdivisions of a column interval one refinement can ask for.
+const MOST_SUBDIVISIONS: f64 = 64.0;
 
 /// Columns of a surface-following band up to this many equatorial radii scale with the local
 /// radius of the surface; the rest blend linearly to the band's outer edge.
@@ -136,6 +157,52 @@ impl Band {
         }
         rows.extend(s.iter().rev().map(|d| self.z_max - d));
         rows
+    }
+
+    /// The band with smaller cells where refinement points inside it ask for less than its
+    /// cells' diagonal, or `None` if none does. A band cannot be refined locally: the largest
+    /// factor asked scales every row spacing and subdivides every column interval (adaptive
+    /// refinement marks the band's cells as a whole, and the estimate sees every one shrink).
+    pub(crate) fn refined_by(&self, points: &[(Point, f64)]) -> Option<Band> {
+        let inside: Vec<&(Point, f64)> = points.iter().filter(|(p, _)| self.holds(*p)).collect();
+        if inside.is_empty() {
+            return None;
+        }
+        let rows = self.rows();
+        let cols = self.all_columns();
+        let mut k: f64 = 1.0;
+        for &&(p, size) in &inside {
+            let i = rows
+                .partition_point(|&z| z <= p[1])
+                .clamp(1, rows.len() - 1);
+            let radii: Vec<f64> = cols.iter().map(|&c| self.column_at(c, p[1])).collect();
+            let j = radii
+                .partition_point(|&r| r <= p[0])
+                .clamp(1, radii.len() - 1);
+            let cell = (rows[i] - rows[i - 1]).hypot(radii[j] - radii[j - 1]);
+            k = k.min(size / cell);
+        }
+        if k >= 1.0 {
+            return None;
+        }
+        let n = (1.0 / k).ceil().min(MOST_SUBDIVISIONS) as usize;
+        let mut finer = self.clone();
+        finer.end_size *= k;
+        finer.growth *= k;
+        finer.max_size *= k;
+        finer.columns.clear();
+        for w in cols.windows(2) {
+            for q in 1..n {
+                finer
+                    .columns
+                    .push(w[0] + (w[1] - w[0]) * q as f64 / n as f64);
+            }
+            if w[1] < self.r_max {
+                // The original line exactly: a surface band finds its outline's column by it.
+                finer.columns.push(w[1]);
+            }
+        }
+        Some(finer)
     }
 
     /// Number of rows, counted up to `cap` (a band with no growth and a tiny end size would
@@ -405,6 +472,19 @@ mod tests {
             long.rows().len(),
             rows.len()
         );
+    }
+
+    #[test]
+    fn a_refinement_point_inside_refines_the_whole_band() {
+        let b = band();
+        assert!(b.refined_by(&[([0.1, 0.0], 1.0)]).is_none()); // outside: nothing asked
+        assert!(b.refined_by(&[([0.015, 0.0], 1.0)]).is_none()); // larger than the cells
+        let finer = b.refined_by(&[([0.015, 0.0], 0.01)]).unwrap();
+        assert!(finer.rows().len() > b.rows().len());
+        assert!(finer.columns.len() > b.columns.len());
+        // The original columns stay, exactly.
+        assert!(b.columns.iter().all(|c| finer.columns.contains(c)));
+        assert!(finer.end_size < b.end_size && finer.max_size < b.max_size);
     }
 
     #[test]

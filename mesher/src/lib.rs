@@ -5,7 +5,9 @@
 //! check the numbers (`validate.rs`), polygonise shapes (`shape.rs`) and build a crossing-free planar
 //! graph (`pslg.rs`), triangulate with spade's constrained Delaunay triangulation and refine for angles
 //! and sizes (`refine.rs`, sizes from `sizing.rs`), then tag each triangle by the region holding its
-//! centroid (`mesh.rs` holds the result).
+//! centroid (`mesh.rs` holds the result). Graded bands (`band.rs`) along slender bodies are
+//! triangulated as stretched rectangles and spliced in after refinement; their triangles are exempt
+//! from the angle floor.
 //!
 //! Geometry conventions: r is the first coordinate, z the second, metres throughout. Curved outlines
 //! are polygons whose vertices lie on the exact curve, with relative chord sagitta (sagitta divided by
@@ -52,7 +54,7 @@ pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
 /// ```
 pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
     validate::check_numbers(spec)?;
-    let snapped = band::snapped(spec);
+    let snapped = band::prepared(spec);
     let spec = snapped.as_ref().unwrap_or(spec);
     validate::check_numbers(spec)?;
     let graph = pslg::build(spec)?;
@@ -63,7 +65,7 @@ pub fn build_mesh(spec: &MeshSpec) -> Result<Mesh, MeshError> {
 /// area of each region, in order; for checking a mesh against its input.
 pub fn polygon_areas(spec: &MeshSpec) -> Result<(f64, Vec<f64>), MeshError> {
     validate::check_numbers(spec)?;
-    let snapped = band::snapped(spec);
+    let snapped = band::prepared(spec);
     let spec = snapped.as_ref().unwrap_or(spec);
     let graph = pslg::build(spec)?;
     Ok((
@@ -75,7 +77,7 @@ pub fn polygon_areas(spec: &MeshSpec) -> Result<(f64, Vec<f64>), MeshError> {
 /// The axial extent (z_min, z_max) in m that each band of `spec` takes in the mesh: a band that
 /// follows a surface has its ends moved to vertices of that surface's polygon.
 pub fn band_extents(spec: &MeshSpec) -> Vec<(f64, f64)> {
-    band::snapped(spec)
+    band::prepared(spec)
         .as_ref()
         .unwrap_or(spec)
         .bands

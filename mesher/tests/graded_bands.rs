@@ -135,7 +135,8 @@ fn graded_rod_and_spheroid_meshes_keep_the_invariants_and_exact_areas() {
                 smallest >= spec.angle_floor_deg,
                 "Delaunay part: {smallest}° (γ {gamma}, spheroid {spheroid})"
             );
-            // Rectangles cut into right triangles, fans where the refinement split an end edge.
+            // Rectangles cut into right triangles; short columns and zippers where the
+            // refinement split an end edge; sheared cells near a spheroid's tips.
             assert!(largest < 150.0, "band: {largest}° (γ {gamma})");
             let (_, areas) = polygon_areas(&spec).unwrap();
             let core = mesh.region_area(CORE);
