@@ -230,6 +230,7 @@ else
         # shellcheck disable=SC2086
         run_limited "${JOB_TIMEOUT:-1800}" "$here/submit.sh" --demag --wait --shards 4 --axicore "$axicore" "$dwork" -- $DEMAG_ARGS \
             || die "the sharded demagnetization study failed"
+        say "sharded demagnetization study done ($(elapsed)); unsharded reference run"
         # shellcheck disable=SC2086
         "$axicore" demag $DEMAG_ARGS --out "$tmp/jobs/demag-unsharded.csv" > /dev/null \
             || die "the unsharded demagnetization study failed"
