@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Regenerates the demagnetization study shown in the README: 30 L/D values from 0.1 to 1000 ×
 # χ = 0 and 29 values from 1 to 1e6, solid rods, each point refined to an estimated 1e-3.
-# About 5 minutes on 2 cores (release build). Writes study.csv, study.json and the SVG plots here.
+# About 3.5 minutes on 2 cores (release build). Writes study.csv, study.json and the SVG plots here.
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
 cd "$here/../.."

@@ -1,5 +1,5 @@
-//! `axicore demag` through the binary: the study's file is a sweep file (jobs, shards and a
-//! rerun give the same bytes), `--from` renders a merged study, plots and JSON are written,
+//! `axicore demag` through the binary: the study's file is a sweep file (shards merged give
+//! the bytes of the whole run), `--from` renders a merged study and refuses a shard, plots and JSON are written,
 //! a case's core gets its verdict, bad options are one-line faults with nothing written. No
 //! outside source here: the factors themselves are validated in the root package's
 //! `tests/demag_factors_chen_brug_goldfarb.rs`.
@@ -47,7 +47,7 @@ fn a_study_gives_the_same_bytes_in_shards_and_renders_plots_and_json() {
         .lines()
         .nth(1)
         .unwrap()
-        .starts_with("index,gamma,chi,status,Nm,Nm_error,Nf"));
+        .starts_with("index,gamma,chi,status,shape,Nm,Nm_error,Nf"));
     for k in ["1/2", "2/2"] {
         let name = format!("shard{}.csv", &k[..1]);
         let (code, _, err) = demag(&dir, &["--shard", k, "--out", &p(&dir, &name)]);
@@ -62,6 +62,10 @@ fn a_study_gives_the_same_bytes_in_shards_and_renders_plots_and_json() {
     ]);
     assert_eq!(code, 0, "{err}");
     assert_eq!(std::fs::read(dir.join("merged.csv")).unwrap(), whole);
+    // A shard alone is not a study to render.
+    let (code, _, err) = axicore(&["demag", "--from", &p(&dir, "shard1.csv")]);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("axicore merge"), "{err}");
     let plots = dir.join("plots");
     std::fs::create_dir_all(&plots).unwrap();
     let (code, _, err) = axicore(&[
@@ -140,10 +144,21 @@ fn bad_demag_options_are_one_line_faults_and_write_nothing() {
         assert!(err.contains(needle), "{err}");
         assert!(!dir.join("x.csv").exists());
     }
-    // A negative χ is a failed row, not a crash: the study reports it and exits 5.
-    let out = p(&dir, "neg.csv");
-    let (code, _, err) = axicore(&[
-        "demag", "--quiet", "--gamma", "2..2:1", "--chi=-1", "--out", &out,
-    ]);
-    assert_eq!(code, 5, "{err}");
+    // Axis values outside the study's bounds are refused before any solve.
+    for (args, needle) in [
+        (vec!["--chi=-1"], "--chi"),
+        (vec!["--chi", "0,nan"], "--chi"),
+        (vec!["--bore", "1.2"], "--bore"),
+        (vec!["--spheroids", "--bore", "0.5"], "--bore"),
+        (vec!["--fineness", "60"], "--fineness"),
+        (vec!["--plot-chi", "7"], "--plot-chi"),
+    ] {
+        let out = p(&dir, "y.csv");
+        let mut a = vec!["demag", "--gamma", "2..2:1", "--out", out.as_str()];
+        a.extend(args);
+        let (code, _, err) = axicore(&a);
+        assert_eq!(code, 2, "{a:?}: {err}");
+        assert!(err.contains(needle), "{err}");
+        assert!(!dir.join("y.csv").exists());
+    }
 }

@@ -119,7 +119,18 @@ fn check_positive(what: &str, x: f64, upper: f64) -> Result<(), Failure> {
 pub fn demag(a: DemagArgs, quiet: bool) -> Result<u8, Failure> {
     check_positive("tolerance", a.tolerance, 1.0)?;
     check_positive("threshold", a.threshold, 10.0)?;
-    check_positive("fineness", a.fineness, 64.0)?;
+    if !(a.fineness.is_finite() && a.fineness > 0.0 && a.fineness <= 50.0) {
+        return Err(Failure::input(format!(
+            "--fineness: {} must be above 0 and at most 50",
+            a.fineness
+        )));
+    }
+    if !(100..=1_000_000_000).contains(&a.max_nodes) {
+        return Err(Failure::input(format!(
+            "--max-nodes: {} must be from 100 to 1000000000",
+            a.max_nodes
+        )));
+    }
     if !(1..=args::MAX_THREADS).contains(&a.jobs) {
         return Err(Failure::input(format!(
             "--jobs: {} must be from 1 to {}",
@@ -166,8 +177,12 @@ pub fn demag(a: DemagArgs, quiet: bool) -> Result<u8, Failure> {
     }
     let axes = match &a.case {
         Some(path) => case_axes(path, &a)?,
-        None => grid_axes(&a)?,
+        None => grid_axes(&a, study.family)?,
     };
+    if let (Some(ax), None) = (&plot_chi, &a.case) {
+        let chis = axes[1].values.iter().filter_map(toml::Value::as_float);
+        check_plot_chi(ax, chis)?;
+    }
     let shard = a
         .shard
         .as_deref()
@@ -209,14 +224,19 @@ fn run_and_render(
         sweep.run(out, a.jobs, &|done| bar.set(done as u64))
     }
     .map_err(Failure::other)?;
-    let text = String::from_utf8_lossy(&outcome.bytes).to_string();
-    let rows = read_study(&text).map_err(Failure::other)?;
+    // A shard's rows are rendered only once the shards are merged (`--from`).
+    let rows = match sweep.shard {
+        None => read_study(&String::from_utf8_lossy(&outcome.bytes)).map_err(Failure::other)?,
+        Some(_) => Vec::new(),
+    };
     if a.out.is_some() {
         output::write_all(&[(out.to_path_buf(), outcome.bytes.clone())]).map_err(Failure::other)?;
         let _ = std::fs::remove_file(partial_path(out));
     }
     if sweep.shard.is_none() {
         render(&rows, a, plot_chi, a.threshold)?;
+    } else if a.json.is_some() || a.plots.is_some() {
+        eprintln!("axicore: note: --json and --plots are written from the merged study (axicore demag --from)");
     }
     if let Some(p) = &a.out {
         emit(&format!(
@@ -226,6 +246,16 @@ fn run_and_render(
             outcome.computed,
             outcome.failed
         ));
+    }
+    let short = rows
+        .iter()
+        .filter(|r| r.status.starts_with("ok") && !r.tolerance_reached)
+        .count();
+    if short > 0 {
+        eprintln!(
+            "axicore: warning: {short} of {} points stopped at the node cap before the tolerance (tolerance_reached false; their error bars say how well they are known)",
+            rows.len()
+        );
     }
     if outcome.failed > 0 {
         eprintln!(
@@ -237,8 +267,21 @@ fn run_and_render(
     Ok(EXIT_OK)
 }
 
-/// The grid's axes from the options (defaults: the study's own grid).
-fn grid_axes(a: &DemagArgs) -> Result<Vec<Axis>, Failure> {
+/// Every `--plot-chi` value must be a χ of the study.
+fn check_plot_chi(ax: &Axis, chis: impl Iterator<Item = f64>) -> Result<(), Failure> {
+    let chis: Vec<f64> = chis.collect();
+    for v in ax.values.iter().filter_map(toml::Value::as_float) {
+        if !chis.contains(&v) {
+            return Err(Failure::input(format!(
+                "--plot-chi: {v} is not a χ of the study"
+            )));
+        }
+    }
+    Ok(())
+}
+
+/// The grid's axes from the options (defaults: the study's own grid), every value checked.
+fn grid_axes(a: &DemagArgs, family: Family) -> Result<Vec<Axis>, Failure> {
     let mut axes = study::default_axes();
     if let Some(g) = &a.gamma {
         axes[0] = grid::parse_range(&format!("{}={g}", study::GAMMA))
@@ -249,6 +292,18 @@ fn grid_axes(a: &DemagArgs) -> Result<Vec<Axis>, Failure> {
     }
     if let Some(b) = &a.bore {
         axes.push(list_axis(study::BETA, b)?);
+    }
+    for axis in &axes {
+        let option = match axis.key.as_str() {
+            study::GAMMA => "--gamma",
+            study::CHI => "--chi",
+            _ => "--bore",
+        };
+        for v in &axis.values {
+            let x = v.as_float().unwrap_or(f64::NAN);
+            study::check_value(family, &axis.key, x)
+                .map_err(|e| Failure::input(format!("{option}: {e}")))?;
+        }
     }
     let points = grid::point_count(&axes);
     if points > 1_000_000 {
@@ -289,7 +344,8 @@ fn case_axes(path: &Path, a: &DemagArgs) -> Result<Vec<Axis>, Failure> {
             "{file}: [core] shape: the study of a case's core covers rods and tubes; a spheroid's factor is Osborn's closed form (use --spheroids for the grid)"
         )));
     }
-    let outcome = run(&case, &RunOptions::default()).map_err(|e| Failure::other(e.to_string()))?;
+    let outcome = run(&case, &RunOptions::default())
+        .map_err(|e| super::failure::run_failure(e, &case, &file))?;
     let r = outcome
         .report
         .core

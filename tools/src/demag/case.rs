@@ -2,7 +2,7 @@
 //! solve itself when the case is a core alone in a uniform field or a magnet alone, else (a
 //! linear core in windings) off one more right-hand side on the same factorised operator, the
 //! core alone in a uniform axial field. Saturating cores have no single factor: their
-//! small-signal study is `axicore demag CASE`.
+//! study at their operating point's secant susceptibility is `axicore demag CASE`.
 
 use axicore_solver::locate::Locator;
 use axicore_solver::post::dipole;
@@ -113,8 +113,18 @@ pub fn case_factors(
         )
     };
     let f = factors(drive, &averages, SourceErrors::default());
+    // Nm = V H0/m − 1/χ magnifies the moment's relative error by (1 + χN)/(χN).
+    let from = if f.chi > 0.0 && f.chi * f.nm < 0.1 {
+        format!(
+            "{from}; χ·Nm = {:.2e} is small, so the factors carry the moment's error times {:.0}",
+            f.chi * f.nm,
+            (1.0 + f.chi * f.nm) / (f.chi * f.nm)
+        )
+    } else {
+        from.to_string()
+    };
     Ok(Some(CaseFactors {
-        from: from.to_string(),
+        from,
         formulas: deviations(body_of(&core.shape), &f, REPORT_THRESHOLD),
         factors: f,
     }))

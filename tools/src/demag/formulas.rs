@@ -8,7 +8,7 @@ use super::factors::Factors;
 
 /// The formulas compared, in report order.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "kebab-case")]
+#[serde(rename_all = "snake_case")]
 pub enum Formula {
     /// The prolate/oblate spheroid of the core's length/diameter (Osborn, Phys. Rev. 67, 351,
     /// 1945): exact for spheroids at every χ, a substitute for rods.
@@ -17,7 +17,8 @@ pub enum Formula {
     /// approximation of Nm at χ = 0.
     SatoIshii,
     /// The torquer design-report formula 4[ln(2γ) − 1]/[(2γ)² − 4 ln(2γ)] (Miller, Univ. of
-    /// Michigan, 2013; Li et al., J. Control Sci. Eng. 2013, eq. 2), slender rods.
+    /// Michigan, 2013; Li et al., J. Control Sci. Eng. 2013, eq. 2 [citation from memory]),
+    /// slender rods.
     Miller,
     /// The ferrite-rod fit 0.37 γ^(−1.44), stated for 2 < γ < 20 (references.md §1).
     FerriteFit,

@@ -28,8 +28,33 @@ fn tag(x: f64) -> String {
     }
 }
 
+/// The formulas' body for a row's shape.
+pub fn body_of(shape: &str, gamma: f64, beta: f64) -> Body {
+    match shape {
+        "spheroid" => Body::Spheroid { gamma },
+        _ if beta > 0.0 => Body::Tube { gamma, beta },
+        _ => Body::Rod { gamma },
+    }
+}
+
+/// How a family of rows is named in titles.
+pub fn shape_words(shape: &str, beta: f64) -> String {
+    match shape {
+        "spheroid" => "spheroids (γ = axis ratio)".into(),
+        _ if beta > 0.0 => format!("tubes, bore/D = {beta}"),
+        _ => "solid rods".into(),
+    }
+}
+
+/// The shape of the successful rows at bore ratio `beta` (all share one).
+pub fn shape_of(rows: &[StudyRow], beta: f64) -> String {
+    rows.iter()
+        .find(|r| r.bore_ratio == beta && !r.shape.is_empty())
+        .map_or("rod".into(), |r| r.shape.clone())
+}
+
 /// The formula curves of one factor over a fine γ grid spanning `lo..hi`.
-fn formula_curves(lo: f64, hi: f64, beta: f64, fluxmetric: bool) -> Vec<Series> {
+fn formula_curves(lo: f64, hi: f64, shape: &str, beta: f64, fluxmetric: bool) -> Vec<Series> {
     let n = 121;
     Formula::ALL
         .iter()
@@ -37,12 +62,7 @@ fn formula_curves(lo: f64, hi: f64, beta: f64, fluxmetric: bool) -> Vec<Series> 
             let pts: Vec<(f64, f64)> = (0..n)
                 .filter_map(|k| {
                     let g = lo * (hi / lo).powf(k as f64 / (n - 1) as f64);
-                    let body = if beta > 0.0 {
-                        Body::Tube { gamma: g, beta }
-                    } else {
-                        Body::Rod { gamma: g }
-                    };
-                    let (a, b) = formula_factors(f, body)?;
+                    let (a, b) = formula_factors(f, body_of(shape, g, beta))?;
                     let v = if fluxmetric { b } else { a };
                     (v.is_finite() && v > 0.0).then_some((g, v))
                 })
@@ -63,11 +83,8 @@ pub fn factor_svg(rows: &[StudyRow], chi: f64, beta: f64) -> Result<String, Plot
         pts.first().map_or(0.1, |r| r.gamma),
         pts.last().map_or(10.0, |r| r.gamma),
     );
-    let shape = if beta > 0.0 {
-        format!("tubes, bore/D = {beta}")
-    } else {
-        "solid rods".to_string()
-    };
+    let kind = shape_of(rows, beta);
+    let shape = shape_words(&kind, beta);
     let chi_text = if chi == 0.0 {
         "χ = 0 (uniformly magnetized)".to_string()
     } else {
@@ -87,7 +104,7 @@ pub fn factor_svg(rows: &[StudyRow], chi: f64, beta: f64) -> Result<String, Plot
             "magnetometric Nm (volume)"
         };
         let mut series = vec![Series::line(format!("{name}, field solution"), fe).with_markers()];
-        series.extend(formula_curves(lo, hi, beta, fluxmetric));
+        series.extend(formula_curves(lo, hi, &kind, beta, fluxmetric));
         Chart {
             title: format!("{name}: {shape}, {chi_text}"),
             x_label: "length / diameter γ".into(),

@@ -43,6 +43,7 @@ pub fn deviation_map_svg(
     beta: f64,
     threshold: f64,
 ) -> Result<Option<String>, String> {
+    let rows_all = rows;
     let rows: Vec<&StudyRow> = rows.iter().filter(|r| r.bore_ratio == beta).collect();
     let gammas = sorted_distinct(rows.iter().map(|r| r.gamma));
     let chis = sorted_distinct(rows.iter().map(|r| r.chi));
@@ -67,11 +68,7 @@ pub fn deviation_map_svg(
         } else {
             "Nm"
         };
-        let shape = if beta > 0.0 {
-            format!("tubes, bore/D = {beta}")
-        } else {
-            "solid rods".into()
-        };
+        let shape = super::demag::shape_words(&super::demag::shape_of(&rows_all, beta), beta);
         let title = format!(
             "{}: N/{target} − 1 over L/D and χ ({shape}); thick line: the {:.0} % contour",
             formula.label(),

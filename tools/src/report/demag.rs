@@ -9,7 +9,7 @@ use crate::study::demag_table::StudyRow;
 fn with_bar(x: Option<f64>, e: Option<f64>) -> String {
     match (x, e) {
         (Some(x), Some(e)) => format!("{x:.5e} ± {e:.1e}"),
-        (Some(x), None) => format!("{x:.5e}"),
+        (Some(x), None) => format!("{x:.5e} ± ?"),
         _ => "—".into(),
     }
 }
@@ -38,6 +38,7 @@ pub fn study_text(rows: &[StudyRow], threshold: f64) -> String {
             s.push_str(&format!("  {}\n", r.status));
             continue;
         }
+        s.push(if r.tolerance_reached { ' ' } else { '†' });
         for f in Formula::ALL {
             let cell = r
                 .formulas
@@ -56,7 +57,7 @@ pub fn study_text(rows: &[StudyRow], threshold: f64) -> String {
         s.push('\n');
     }
     s.push_str(&format!(
-        "Formula columns: N_formula/N_solved − 1 (against Nf for {}, Nm otherwise); * beyond {:.0} % after the solution's error bar.\n",
+        "Formula columns: N_formula/N_solved − 1 (against Nf for {}, Nm otherwise); * beyond {:.0} % after the solution's error bar; † the point stopped before the tolerance (node cap); ± ? no estimate.\n",
         Formula::FerriteFit.name(),
         100.0 * threshold
     ));

@@ -131,21 +131,37 @@ pub fn averages_of(r: &Report) -> Option<CoreAverages> {
     })
 }
 
+/// Largest susceptibility a point may have (the case file's μr cap is 1e7).
+pub const MAX_CHI: f64 = 1e7 - 1.0;
+
+/// Checks one axis value: γ within the case file's L/D bounds (1e-3 … 1e4), χ from 0 to
+/// [`MAX_CHI`], β from 0 to 0.95 (and 0 for spheroids).
+pub fn check_value(family: Family, key: &str, x: f64) -> Result<(), String> {
+    let ok = match key {
+        GAMMA => x.is_finite() && (1e-3..=1e4).contains(&x),
+        CHI => x.is_finite() && (0.0..=MAX_CHI).contains(&x),
+        BETA => {
+            x.is_finite() && (0.0..=0.95).contains(&x) && (family == Family::Cylinder || x == 0.0)
+        }
+        _ => false,
+    };
+    if ok {
+        return Ok(());
+    }
+    Err(match key {
+        GAMMA => format!("{x} must be a length/diameter from 1e-3 to 1e4"),
+        CHI => format!("{x} must be a susceptibility from 0 to {MAX_CHI:e}"),
+        BETA if family == Family::Spheroid => "spheroids have no bore".to_string(),
+        _ => format!("{x} must be a bore/diameter ratio from 0 to 0.95"),
+    })
+}
+
 impl DemagStudy {
     /// Solves one point of the grid.
     pub fn solve_point(&self, gamma: f64, chi: f64, beta: f64) -> Result<PointResult, String> {
-        if !(gamma.is_finite() && gamma > 0.0) {
-            return Err(format!("gamma {gamma} must be a positive number"));
-        }
-        if !(chi.is_finite() && chi >= 0.0) {
-            return Err(format!("chi {chi} must be 0 or positive"));
-        }
-        if !(beta.is_finite() && (0.0..1.0).contains(&beta)) {
-            return Err(format!("bore_ratio {beta} must be from 0 to below 1"));
-        }
-        if self.family == Family::Spheroid && beta > 0.0 {
-            return Err("spheroids have no bore".into());
-        }
+        check_value(self.family, GAMMA, gamma).map_err(|e| format!("gamma: {e}"))?;
+        check_value(self.family, CHI, chi).map_err(|e| format!("chi: {e}"))?;
+        check_value(self.family, BETA, beta).map_err(|e| format!("bore_ratio: {e}"))?;
         let body = body(self.family, gamma, beta);
         let text = point_case(body, chi, self.fineness, self.max_nodes);
         let case = parse_case(&text, "(study point)").map_err(|e| e.to_string())?;
@@ -207,7 +223,7 @@ impl DemagStudy {
 
 /// Columns of a study row after `status`, before the formulas' columns.
 const FACTOR_COLUMNS: &str =
-    "Nm,Nm_error,Nf,Nf_error,chi_app_moment,chi_app_mid,tolerance_reached,levels,unknowns";
+    "shape,Nm,Nm_error,Nf,Nf_error,chi_app_moment,chi_app_mid,tolerance_reached,levels,unknowns";
 
 /// Per formula: its N (for Nm; for Nf where it differs), its deviation from Nm and Nf, the
 /// moment it predicts relative to the solved one, and the flag.
@@ -250,8 +266,13 @@ impl PointStudy for DemagStudy {
         let p = self.solve_point(gamma, chi, beta)?;
         let f = &p.factors;
         let opt = |e: Option<f64>| e.map_or(String::new(), num);
+        let shape = match body(self.family, gamma, beta) {
+            Body::Rod { .. } => "rod",
+            Body::Tube { .. } => "tube",
+            Body::Spheroid { .. } => "spheroid",
+        };
         let mut row = format!(
-            "{},{},{},{},{},{},{},{},{}",
+            "{shape},{},{},{},{},{},{},{},{},{}",
             num(f.nm),
             opt(f.nm_error),
             num(f.nf),

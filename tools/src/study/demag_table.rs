@@ -38,6 +38,8 @@ pub struct StudyRow {
     pub bore_ratio: f64,
     /// `ok` or `failed: …`.
     pub status: String,
+    /// `rod`, `tube` or `spheroid` (empty for a failed point).
+    pub shape: String,
     /// Magnetometric factor and its estimated absolute error.
     pub nm: Option<f64>,
     /// Estimated absolute error of Nm.
@@ -56,6 +58,28 @@ pub struct StudyRow {
     pub unknowns: Option<usize>,
     /// The formulas that apply at this point.
     pub formulas: Vec<FormulaCells>,
+}
+
+/// Sets every formula's flag anew for `threshold`: the deviation of the factor the formula is
+/// meant for, beyond the point's own relative error bar (as the study flags them), so a file
+/// rendered with another threshold says so consistently.
+pub fn reflag(rows: &mut [StudyRow], threshold: f64) {
+    for r in rows {
+        let (nm, nf) = (r.nm, r.nf);
+        let bar = |n: Option<f64>, e: Option<f64>| match (n, e) {
+            (Some(n), Some(e)) if n != 0.0 => e / n.abs(),
+            _ => 0.0,
+        };
+        let (bm, bf) = (bar(nm, r.nm_error), bar(nf, r.nf_error));
+        for c in &mut r.formulas {
+            let (dev, b) = if c.formula.targets_fluxmetric() {
+                (c.vs_nf, bf)
+            } else {
+                (c.vs_nm, bm)
+            };
+            c.flagged = dev.abs() - b > threshold;
+        }
+    }
 }
 
 /// Splits one CSV line into cells (RFC 4180 quoting, as the sweep writes it).
@@ -82,9 +106,19 @@ pub fn split_csv(line: &str) -> Vec<String> {
 /// Reads the rows of a finished study file; the error names the line and the fault.
 pub fn read_study(text: &str) -> Result<Vec<StudyRow>, String> {
     let mut lines = text.lines();
-    let id = lines.next().unwrap_or_default();
-    if !id.starts_with("# axicore sweep ") {
-        return Err("not an axicore sweep file (first line)".into());
+    let id = super::sweep_file::SweepId::parse(lines.next().unwrap_or_default())
+        .ok_or("not an axicore sweep file (first line)")?;
+    if let Some((k, n)) = id.shard {
+        return Err(format!(
+            "shard {k}/{n} of a study: join the shards with `axicore merge` first"
+        ));
+    }
+    let rows_in_file = text.lines().count().saturating_sub(2);
+    if rows_in_file != id.points || !text.ends_with('\n') {
+        return Err(format!(
+            "holds {rows_in_file} of the study's {} points (unfinished?)",
+            id.points
+        ));
     }
     let header = split_csv(lines.next().ok_or("no header line")?);
     let col = |name: &str| header.iter().position(|h| h == name);
@@ -126,6 +160,7 @@ pub fn read_study(text: &str) -> Result<Vec<StudyRow>, String> {
             chi: number(ci)?,
             bore_ratio: bi.map(number).transpose()?.unwrap_or(0.0),
             status: at(si).to_string(),
+            shape: col("shape").map_or(String::new(), |i| at(i).to_string()),
             nm: f("Nm"),
             nm_error: f("Nm_error"),
             nf: f("Nf"),
