@@ -68,7 +68,7 @@ pub fn deviation_map_svg(
         } else {
             "Nm"
         };
-        let shape = super::demag::shape_words(&super::demag::shape_of(&rows_all, beta), beta);
+        let shape = super::demag::shape_words(&super::demag::shape_of(rows_all, beta), beta);
         let title = format!(
             "{}: N/{target} − 1 over L/D and χ ({shape}); thick line: the {:.0} % contour",
             formula.label(),
