@@ -162,3 +162,31 @@ fn bad_demag_options_are_one_line_faults_and_write_nothing() {
         assert!(!dir.join("y.csv").exists());
     }
 }
+
+#[test]
+fn the_committed_study_says_what_the_readme_says() {
+    // README "The demagnetization study" quotes counts and deviations of
+    // cases/demag-study/study.csv; this keeps them in step when the study is regenerated.
+    use axicore::demag::formulas::Formula;
+    use axicore::study::demag_table::{read_study, reflag};
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("..");
+    let text = std::fs::read_to_string(root.join("cases/demag-study/study.csv")).unwrap();
+    let mut rows = read_study(&text).unwrap();
+    assert_eq!(rows.len(), 900);
+    reflag(&mut rows, 0.05);
+    let held = |f: Formula| {
+        rows.iter()
+            .filter(|r| r.formulas.iter().any(|c| c.formula == f && !c.flagged))
+            .count()
+    };
+    assert_eq!(held(Formula::Ellipsoid), 51);
+    assert_eq!(held(Formula::SatoIshii), 44);
+    assert_eq!(held(Formula::Miller), 64);
+    assert_eq!(held(Formula::FerriteFit), 35);
+    assert_eq!(held(Formula::UniformMagnetization), 49);
+    let readme = std::fs::read_to_string(root.join("README.md")).unwrap();
+    for quoted in ["51 of the 900", "64 of its 630", "35 of the 210"] {
+        assert!(readme.contains(quoted), "README no longer says '{quoted}'");
+    }
+    assert_eq!(rows.iter().filter(|r| !r.tolerance_reached).count(), 9);
+}
