@@ -168,7 +168,7 @@ fn the_committed_study_says_what_the_readme_says() {
     // README "The demagnetization study" quotes counts and deviations of
     // cases/demag-study/study.csv; this keeps them in step when the study is regenerated.
     use axicore::demag::formulas::Formula;
-    use axicore::study::demag_table::{read_study, reflag};
+    use axicore::demag::table::{read_study, reflag};
     let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("..");
     let text = std::fs::read_to_string(root.join("cases/demag-study/study.csv")).unwrap();
     let mut rows = read_study(&text).unwrap();

@@ -10,9 +10,11 @@
 //! Nf = −⟨H_z⟩_mid/M0.
 //!
 //! [`averages`] reads the field quantities off a solution, [`factors`] turns them into Nm and Nf
-//! with error bars, [`formulas`] evaluates the closed forms and approximations beside them.
+//! with error bars, [`formulas`] evaluates the closed forms and approximations beside them,
+//! [`table`] reads a finished study back for its JSON and plots.
 
 pub mod averages;
 pub mod case;
 pub mod factors;
 pub mod formulas;
+pub mod table;

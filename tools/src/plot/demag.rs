@@ -3,8 +3,8 @@
 //! deviation map over the (L/D, χ) grid ([`super::demag_map`]).
 
 use super::{render_svg_stack, Chart, PlotError, Scale, Series};
-use crate::demag::formulas::{formula_factors, Body, Formula};
-use crate::study::demag_table::StudyRow;
+use crate::demag::formulas::{formula_factors, Formula};
+use crate::demag::table::{body_of, shape_of, shape_words, StudyRow};
 
 /// Distinct values in first-seen order, compared exactly (they come from one grid).
 fn distinct(values: impl Iterator<Item = f64>) -> Vec<f64> {
@@ -26,31 +26,6 @@ fn tag(x: f64) -> String {
     } else {
         format!("{x}")
     }
-}
-
-/// The formulas' body for a row's shape.
-pub fn body_of(shape: &str, gamma: f64, beta: f64) -> Body {
-    match shape {
-        "spheroid" => Body::Spheroid { gamma },
-        _ if beta > 0.0 => Body::Tube { gamma, beta },
-        _ => Body::Rod { gamma },
-    }
-}
-
-/// How a family of rows is named in titles.
-pub fn shape_words(shape: &str, beta: f64) -> String {
-    match shape {
-        "spheroid" => "spheroids (γ = axis ratio)".into(),
-        _ if beta > 0.0 => format!("tubes, bore/D = {beta}"),
-        _ => "solid rods".into(),
-    }
-}
-
-/// The shape of the successful rows at bore ratio `beta` (all share one).
-pub fn shape_of(rows: &[StudyRow], beta: f64) -> String {
-    rows.iter()
-        .find(|r| r.bore_ratio == beta && !r.shape.is_empty())
-        .map_or("rod".into(), |r| r.shape.clone())
 }
 
 /// The formula curves of one factor over a fine γ grid spanning `lo..hi`.

@@ -7,7 +7,7 @@ use plotters::prelude::*;
 
 use super::{ensure_font, FAMILY};
 use crate::demag::formulas::Formula;
-use crate::study::demag_table::StudyRow;
+use crate::demag::table::{shape_of, shape_words, StudyRow};
 
 /// Deviations are coloured up to ± this (relative); beyond it the colour is saturated.
 const COLOUR_SPAN: f64 = 0.5;
@@ -68,7 +68,7 @@ pub fn deviation_map_svg(
         } else {
             "Nm"
         };
-        let shape = super::demag::shape_words(&super::demag::shape_of(rows_all, beta), beta);
+        let shape = shape_words(&shape_of(rows_all, beta), beta);
         let title = format!(
             "{}: N/{target} − 1 over L/D and χ ({shape}); thick line: the {:.0} % contour",
             formula.label(),

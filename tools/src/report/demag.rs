@@ -3,7 +3,7 @@
 use serde_json::{json, Value};
 
 use crate::demag::formulas::Formula;
-use crate::study::demag_table::StudyRow;
+use crate::demag::table::StudyRow;
 
 /// A factor with its error bar, e.g. "0.04119 ± 3e-6".
 fn with_bar(x: Option<f64>, e: Option<f64>) -> String {

@@ -4,7 +4,7 @@
 
 use serde::Serialize;
 
-use crate::demag::formulas::Formula;
+use super::formulas::{Body, Formula};
 
 /// One formula's figures at one point.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
@@ -60,6 +60,31 @@ pub struct StudyRow {
     pub formulas: Vec<FormulaCells>,
 }
 
+/// The formulas' body for a row's shape.
+pub fn body_of(shape: &str, gamma: f64, beta: f64) -> Body {
+    match shape {
+        "spheroid" => Body::Spheroid { gamma },
+        _ if beta > 0.0 => Body::Tube { gamma, beta },
+        _ => Body::Rod { gamma },
+    }
+}
+
+/// How a family of rows is named in titles.
+pub fn shape_words(shape: &str, beta: f64) -> String {
+    match shape {
+        "spheroid" => "spheroids (γ = axis ratio)".into(),
+        _ if beta > 0.0 => format!("tubes, bore/D = {beta}"),
+        _ => "solid rods".into(),
+    }
+}
+
+/// The shape of the successful rows at bore ratio `beta` (all share one).
+pub fn shape_of(rows: &[StudyRow], beta: f64) -> String {
+    rows.iter()
+        .find(|r| r.bore_ratio == beta && !r.shape.is_empty())
+        .map_or("rod".into(), |r| r.shape.clone())
+}
+
 /// Sets every formula's flag anew for `threshold`: the deviation of the factor the formula is
 /// meant for, beyond the point's own relative error bar (as the study flags them), so a file
 /// rendered with another threshold says so consistently.
@@ -106,7 +131,7 @@ pub fn split_csv(line: &str) -> Vec<String> {
 /// Reads the rows of a finished study file; the error names the line and the fault.
 pub fn read_study(text: &str) -> Result<Vec<StudyRow>, String> {
     let mut lines = text.lines();
-    let id = super::sweep_file::SweepId::parse(lines.next().unwrap_or_default())
+    let id = crate::study::sweep_file::SweepId::parse(lines.next().unwrap_or_default())
         .ok_or("not an axicore sweep file (first line)")?;
     if let Some((k, n)) = id.shard {
         return Err(format!(
