@@ -53,16 +53,8 @@ pub fn core_averages(
     core: &Core,
     core_moment: f64,
 ) -> Result<CoreAverages, SolverError> {
-    let (mut sum, mut volume) = (0.0, 0.0);
-    for (e, g) in model.geometry().iter().enumerate() {
-        if model.mesh().tags[e] != CORE_TAG {
-            continue;
-        }
-        for q in &g.qp {
-            sum += sol.b_q(model, e, q)[1] * q.dv;
-            volume += q.dv;
-        }
-    }
+    let volume = axicore_solver::post::flux::region_volume(model, CORE_TAG);
+    let b_z = crate::apparent::core_average_bz(model, sol);
     let (ri, ro) = mid_plane_radii(&core.shape);
     // The flux through the circle of radius r in the plane z is 2π r A_φ(r, z): A is
     // continuous, so its value on the core's surface needs no derivative.
@@ -76,7 +68,7 @@ pub fn core_averages(
     let mid_flux = psi(ro)? - psi(ri)?;
     Ok(CoreAverages {
         volume_m3: volume,
-        b_z: if volume > 0.0 { sum / volume } else { 0.0 },
+        b_z,
         m_z: if volume > 0.0 {
             core_moment / volume
         } else {
