@@ -190,3 +190,45 @@ fn the_committed_study_says_what_the_readme_says() {
     }
     assert_eq!(rows.iter().filter(|r| !r.tolerance_reached).count(), 9);
 }
+
+#[test]
+fn rendering_a_study_sets_its_flags_at_the_threshold_asked() {
+    // `--from` recomputes the flags from the deviations and error bars at its own threshold,
+    // so the counts it prints follow the threshold; JSON names the formulas as the CSV does.
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("..");
+    let csv = root.join("cases/demag-study/study.csv");
+    let count = |out: &str, pct: &str| -> usize {
+        let line = out
+            .lines()
+            .find(|l| l.contains("ellipsoid of equal L/D"))
+            .unwrap_or_else(|| panic!("{out}"));
+        assert!(line.contains(&format!("within {pct} %")), "{line}");
+        line.split(" at ")
+            .nth(1)
+            .unwrap()
+            .split(' ')
+            .next()
+            .unwrap()
+            .parse()
+            .unwrap()
+    };
+    let (code, tight, err) = axicore(&["demag", "--from", csv.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    let (code, loose, err) = axicore(&[
+        "demag",
+        "--from",
+        csv.to_str().unwrap(),
+        "--threshold",
+        "0.2",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(count(&loose, "20") > count(&tight, "5"));
+    let dir = common::scratch_dir("demag", "names");
+    let json = p(&dir, "s.json");
+    let (code, _, err) = axicore(&["demag", "--from", csv.to_str().unwrap(), "--json", &json]);
+    assert_eq!(code, 0, "{err}");
+    let text = std::fs::read_to_string(&json).unwrap();
+    for name in ["\"chi0_exact\"", "\"sato_ishii\"", "\"ferrite_fit\""] {
+        assert!(text.contains(name), "{name}");
+    }
+}

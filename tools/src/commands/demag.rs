@@ -60,7 +60,7 @@ pub struct DemagArgs {
     #[arg(long, value_name = "FILE")]
     out: Option<PathBuf>,
     /// Render a finished study file (from `--out` or `axicore merge`) instead of solving.
-    #[arg(long, value_name = "FILE", conflicts_with_all = ["case", "out", "shard"])]
+    #[arg(long, value_name = "FILE", conflicts_with_all = ["case", "out", "shard", "gamma", "chi", "bore", "spheroids", "tolerance", "fineness", "max_nodes", "jobs"])]
     from: Option<PathBuf>,
     /// JSON table of the finished study.
     #[arg(long, value_name = "FILE")]
@@ -171,8 +171,13 @@ pub fn demag(a: DemagArgs, quiet: bool) -> Result<u8, Failure> {
     };
     if let Some(from) = &a.from {
         let text = crate::case::read_case_text(from).map_err(|e| Failure::input(e.to_string()))?;
-        let rows =
+        let mut rows =
             read_study(&text).map_err(|e| Failure::input(format!("{}: {e}", from.display())))?;
+        // The flags are set anew at this run's threshold, so counts, maps and flags agree.
+        crate::demag::table::reflag(&mut rows, a.threshold);
+        if let Some(ax) = &plot_chi {
+            check_plot_chi(ax, rows.iter().map(|r| r.chi))?;
+        }
         return render(&rows, &a, plot_chi.as_ref(), a.threshold);
     }
     let axes = match &a.case {

@@ -25,6 +25,7 @@ pub enum Formula {
     /// The exact χ = 0 factors of a uniformly magnetized rod or tube (Nm from the inductance
     /// analogy, Nf from the charge picture; references.md §1): what the factors are worth
     /// when the core's own χ is ignored.
+    #[serde(rename = "chi0_exact")]
     UniformMagnetization,
 }
 
