@@ -8,7 +8,7 @@ use std::path::{Path, PathBuf};
 use clap::Args;
 
 use super::args::{self, case_name};
-use super::failure::{EXIT_OK, EXIT_POINTS_FAILED};
+use super::failure::EXIT_OK;
 use super::{emit, Failure};
 use crate::case::{read_case_file, CoreShape};
 use crate::demag::table::{read_study, StudyRow};
@@ -171,10 +171,9 @@ pub fn demag(a: DemagArgs, quiet: bool) -> Result<u8, Failure> {
     };
     if let Some(from) = &a.from {
         let text = crate::case::read_case_text(from).map_err(|e| Failure::input(e.to_string()))?;
-        let mut rows =
-            read_study(&text).map_err(|e| Failure::input(format!("{}: {e}", from.display())))?;
         // The flags are set anew at this run's threshold, so counts, maps and flags agree.
-        crate::demag::table::reflag(&mut rows, a.threshold);
+        let rows = read_study(&text, a.threshold)
+            .map_err(|e| Failure::input(format!("{}: {e}", from.display())))?;
         if let Some(ax) = &plot_chi {
             check_plot_chi(ax, rows.iter().map(|r| r.chi))?;
         }
@@ -231,7 +230,8 @@ fn run_and_render(
     .map_err(Failure::other)?;
     // A shard's rows are rendered only once the shards are merged (`--from`).
     let rows = match sweep.shard {
-        None => read_study(&String::from_utf8_lossy(&outcome.bytes)).map_err(Failure::other)?,
+        None => read_study(&String::from_utf8_lossy(&outcome.bytes), a.threshold)
+            .map_err(Failure::other)?,
         Some(_) => Vec::new(),
     };
     if a.out.is_some() {
@@ -243,15 +243,6 @@ fn run_and_render(
     } else if a.json.is_some() || a.plots.is_some() {
         eprintln!("axicore: note: --json and --plots are written from the merged study (axicore demag --from)");
     }
-    if let Some(p) = &a.out {
-        emit(&format!(
-            "{}: {} points ({} computed now, {} failed)\n",
-            p.display(),
-            outcome.points,
-            outcome.computed,
-            outcome.failed
-        ));
-    }
     let short = rows
         .iter()
         .filter(|r| r.status.starts_with("ok") && !r.tolerance_reached)
@@ -262,14 +253,7 @@ fn run_and_render(
             rows.len()
         );
     }
-    if outcome.failed > 0 {
-        eprintln!(
-            "axicore: warning: {} of {} points failed (their rows say why); exit code {EXIT_POINTS_FAILED}",
-            outcome.failed, outcome.points
-        );
-        return Ok(EXIT_POINTS_FAILED);
-    }
-    Ok(EXIT_OK)
+    Ok(super::sweep::finished(a.out.as_deref(), &outcome))
 }
 
 /// Every `--plot-chi` value must be a χ of the study.

@@ -12,7 +12,7 @@ use crate::case::read_case_text;
 use crate::output;
 use crate::progress::Progress;
 use crate::study::grid;
-use crate::study::sweep::{merge, CaseKeys, KeySweep, Sweep};
+use crate::study::sweep::{merge, CaseKeys, KeySweep, Sweep, SweepOutcome};
 use crate::study::sweep_file::partial_path;
 
 /// Options of `axicore sweep`.
@@ -114,28 +114,37 @@ pub fn sweep(a: SweepArgs, quiet: bool) -> Result<u8, Failure> {
         study: &study,
         shard,
     };
-    let outcome = {
+    let mut outcome = {
         let bar = Progress::new(Some(sweep.indices().len() as u64), "sweep", quiet);
         sweep.run(&a.out, a.jobs, &|done| bar.set(done as u64))
     }
     .map_err(Failure::other)?;
-    output::write_all(&[(a.out.clone(), outcome.bytes)]).map_err(Failure::other)?;
+    let bytes = std::mem::take(&mut outcome.bytes);
+    output::write_all(&[(a.out.clone(), bytes)]).map_err(Failure::other)?;
     let _ = std::fs::remove_file(partial_path(&a.out));
-    emit(&format!(
-        "{}: {} points ({} computed now, {} failed)\n",
-        a.out.display(),
-        outcome.points,
-        outcome.computed,
-        outcome.failed
-    ));
+    Ok(finished(Some(&a.out), &outcome))
+}
+
+/// Says how a sweep (or study) run ended — its file's line when `out` is given, a warning
+/// when points failed — and returns the exit code (5 when some points failed).
+pub(super) fn finished(out: Option<&std::path::Path>, outcome: &SweepOutcome) -> u8 {
+    if let Some(out) = out {
+        emit(&format!(
+            "{}: {} points ({} computed now, {} failed)\n",
+            out.display(),
+            outcome.points,
+            outcome.computed,
+            outcome.failed
+        ));
+    }
     if outcome.failed > 0 {
         eprintln!(
             "axicore: warning: {} of {} points failed (their rows say why); exit code {EXIT_POINTS_FAILED}",
             outcome.failed, outcome.points
         );
-        return Ok(EXIT_POINTS_FAILED);
+        return EXIT_POINTS_FAILED;
     }
-    Ok(EXIT_OK)
+    EXIT_OK
 }
 
 /// Runs `axicore merge`.

@@ -147,6 +147,29 @@ pub struct Deviation {
     pub flagged: bool,
 }
 
+impl Deviation {
+    /// Sets `significant` and `flagged` from the relative error bars of Nm and Nf: the
+    /// deviation of the factor the formula is meant for, less that factor's bar, against
+    /// `threshold`.
+    pub fn judge(&mut self, bar_nm: f64, bar_nf: f64, threshold: f64) {
+        let (dev, bar) = if self.formula.targets_fluxmetric() {
+            (self.vs_nf, bar_nf)
+        } else {
+            (self.vs_nm, bar_nm)
+        };
+        self.significant = dev.signum() * (dev.abs() - bar).max(0.0);
+        self.flagged = self.significant.abs() > threshold;
+    }
+}
+
+/// A factor's relative error bar from its absolute one (0 without an estimate).
+pub fn relative_bar(n: f64, error: Option<f64>) -> f64 {
+    match error {
+        Some(e) if n != 0.0 => e / n.abs(),
+        _ => 0.0,
+    }
+}
+
 /// The deviations of every applicable formula at one solved point, flagged above
 /// `threshold` (relative).
 pub fn deviations(body: Body, fe: &Factors, threshold: f64) -> Vec<Deviation> {
@@ -162,23 +185,22 @@ pub fn deviations(body: Body, fe: &Factors, threshold: f64) -> Vec<Deviation> {
             } else {
                 0.0
             };
-            let (dev, n, err) = if f.targets_fluxmetric() {
-                (vs_nf, fe.nf, fe.nf_error)
-            } else {
-                (vs_nm, fe.nm, fe.nm_error)
-            };
-            let bar = err.map_or(0.0, |e| e / n.abs());
-            let significant = dev.signum() * (dev.abs() - bar).max(0.0);
-            Some(Deviation {
+            let mut d = Deviation {
                 formula: f,
                 n_for_nm: a,
                 n_for_nf: b,
                 vs_nm,
                 vs_nf,
                 moment,
-                significant,
-                flagged: significant.abs() > threshold,
-            })
+                significant: 0.0,
+                flagged: false,
+            };
+            d.judge(
+                relative_bar(fe.nm, fe.nm_error),
+                relative_bar(fe.nf, fe.nf_error),
+                threshold,
+            );
+            Some(d)
         })
         .collect()
 }

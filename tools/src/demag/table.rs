@@ -4,26 +4,7 @@
 
 use serde::Serialize;
 
-use super::formulas::{Body, Formula};
-
-/// One formula's figures at one point.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
-pub struct FormulaCells {
-    /// The formula.
-    pub formula: Formula,
-    /// Its factor compared with Nm.
-    pub n_for_nm: f64,
-    /// Its factor compared with Nf.
-    pub n_for_nf: f64,
-    /// N/Nm − 1.
-    pub vs_nm: f64,
-    /// N/Nf − 1.
-    pub vs_nf: f64,
-    /// Predicted moment over solved moment − 1.
-    pub moment: f64,
-    /// Above the threshold beyond the error bar.
-    pub flagged: bool,
-}
+use super::formulas::{relative_bar, Body, Deviation, Formula};
 
 /// One point of a study.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -57,7 +38,7 @@ pub struct StudyRow {
     /// Unknowns of the finest level.
     pub unknowns: Option<usize>,
     /// The formulas that apply at this point.
-    pub formulas: Vec<FormulaCells>,
+    pub formulas: Vec<Deviation>,
 }
 
 /// The formulas' body for a row's shape.
@@ -85,28 +66,6 @@ pub fn shape_of(rows: &[StudyRow], beta: f64) -> String {
         .map_or("rod".into(), |r| r.shape.clone())
 }
 
-/// Sets every formula's flag anew for `threshold`: the deviation of the factor the formula is
-/// meant for, beyond the point's own relative error bar (as the study flags them), so a file
-/// rendered with another threshold says so consistently.
-pub fn reflag(rows: &mut [StudyRow], threshold: f64) {
-    for r in rows {
-        let (nm, nf) = (r.nm, r.nf);
-        let bar = |n: Option<f64>, e: Option<f64>| match (n, e) {
-            (Some(n), Some(e)) if n != 0.0 => e / n.abs(),
-            _ => 0.0,
-        };
-        let (bm, bf) = (bar(nm, r.nm_error), bar(nf, r.nf_error));
-        for c in &mut r.formulas {
-            let (dev, b) = if c.formula.targets_fluxmetric() {
-                (c.vs_nf, bf)
-            } else {
-                (c.vs_nm, bm)
-            };
-            c.flagged = dev.abs() - b > threshold;
-        }
-    }
-}
-
 /// Splits one CSV line into cells (RFC 4180 quoting, as the sweep writes it).
 pub fn split_csv(line: &str) -> Vec<String> {
     let mut out = Vec::new();
@@ -128,8 +87,11 @@ pub fn split_csv(line: &str) -> Vec<String> {
     out
 }
 
-/// Reads the rows of a finished study file; the error names the line and the fault.
-pub fn read_study(text: &str) -> Result<Vec<StudyRow>, String> {
+/// Reads the rows of a finished study file, judging every formula's deviation at
+/// `threshold` beyond the point's error bars (as the study itself flags them, so a file
+/// rendered at another threshold is flagged consistently); the error names the line and the
+/// fault.
+pub fn read_study(text: &str, threshold: f64) -> Result<Vec<StudyRow>, String> {
     let mut lines = text.lines();
     let id = crate::study::sweep_file::SweepId::parse(lines.next().unwrap_or_default())
         .ok_or("not an axicore sweep file (first line)")?;
@@ -166,14 +128,16 @@ pub fn read_study(text: &str) -> Result<Vec<StudyRow>, String> {
             .iter()
             .filter_map(|&fo| {
                 let g = |c: &str| f(&format!("{}_{c}", fo.name()));
-                Some(FormulaCells {
+                Some(Deviation {
                     formula: fo,
                     n_for_nm: g("N_for_Nm")?,
                     n_for_nf: g("N_for_Nf")?,
                     vs_nm: g("vs_Nm")?,
                     vs_nf: g("vs_Nf")?,
                     moment: g("moment")?,
-                    flagged: col(&format!("{}_flag", fo.name())).is_some_and(|i| at(i) == "yes"),
+                    // Judged below, at the reader's threshold.
+                    significant: 0.0,
+                    flagged: false,
                 })
             })
             .collect();
@@ -196,6 +160,15 @@ pub fn read_study(text: &str) -> Result<Vec<StudyRow>, String> {
             unknowns: col("unknowns").and_then(|i| at(i).parse().ok()),
             formulas,
         });
+    }
+    for r in &mut rows {
+        let (bm, bf) = (
+            r.nm.map_or(0.0, |n| relative_bar(n, r.nm_error)),
+            r.nf.map_or(0.0, |n| relative_bar(n, r.nf_error)),
+        );
+        for d in &mut r.formulas {
+            d.judge(bm, bf, threshold);
+        }
     }
     Ok(rows)
 }
