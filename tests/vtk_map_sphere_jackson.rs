@@ -15,10 +15,10 @@
 use axicore::case::parse_case;
 use axicore::pipeline::discretise;
 use axicore_formulas as reference;
+use axicore_solver::adjacency::Patches;
 use axicore_solver::export::region_points::RegionPoints;
 use axicore_solver::export::vtk::{field_grid, MapLabels};
 use axicore_solver::export::vtu::{DataArray, Values};
-use axicore_solver::recover::Patches;
 use axicore_solver::{Model, MU0};
 
 const CASE: &str = r#"

@@ -83,7 +83,7 @@ pub fn rhs(
                 }
             }
             if b0 != 0.0 {
-                let nu0 = 1.0 / crate::MU0;
+                let nu0 = 1.0 / crate::constants::MU0;
                 for (iq, q) in g.qp.iter().enumerate() {
                     let dnu = nu(e, iq) - nu0;
                     if dnu != 0.0 {

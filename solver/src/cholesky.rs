@@ -14,8 +14,8 @@ use faer::sparse::linalg::SupernodalThreshold;
 use faer::sparse::{SparseColMatRef, SymbolicSparseColMatRef};
 use faer::{Conj, MatMut, Par, Side};
 
+use crate::error::SolverError;
 use crate::pattern::Pattern;
-use crate::SolverError;
 
 /// Symbolic Cholesky analysis of a lower-triangular pattern.
 #[derive(Debug)]

@@ -69,7 +69,7 @@ pub enum SolverError {
         /// Last relative residual.
         residual: f64,
         /// Why it stopped.
-        reason: String,
+        reason: StopReason,
         /// Relative residual before each iteration and at the end.
         history: Vec<f64>,
     },
@@ -81,4 +81,38 @@ pub enum SolverError {
         /// What went wrong.
         reason: String,
     },
+}
+
+/// Why a nonlinear iteration stopped without converging.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum StopReason {
+    /// The iteration budget was spent.
+    IterationLimit {
+        /// The user's iteration limit.
+        limit: usize,
+        /// Iterations of abandoned attempts before a restart, counted against the limit.
+        before_restart: usize,
+    },
+    /// The residual became NaN or infinite.
+    NonFiniteResidual,
+}
+
+impl std::fmt::Display for StopReason {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            Self::IterationLimit {
+                limit,
+                before_restart: 0,
+            } => write!(f, "iteration limit {limit} reached"),
+            Self::IterationLimit {
+                limit,
+                before_restart,
+            } => write!(
+                f,
+                "iteration limit {limit} reached (counting {before_restart} before the restart \
+                 from the first-order field)"
+            ),
+            Self::NonFiniteResidual => write!(f, "the residual is not finite"),
+        }
+    }
 }

@@ -23,9 +23,10 @@
 //! In matrix form D = Σ_n κ_n w_n w_nᵀ over the surface nodes, with w_{n,i} = g_n(φ_i); D is
 //! dense among the surface nodes only (a few hundred), so it joins the sparse pattern.
 
+use crate::constants::MU0;
 use crate::element::ElementGeometry;
+use crate::error::SolverError;
 use crate::mesh::FeMesh;
-use crate::{SolverError, MU0};
 
 /// The exact exterior of a problem: the radius of the meshed sphere and its surface nodes.
 #[derive(Debug, Clone, PartialEq)]

@@ -1,10 +1,12 @@
-//! The solved field: nodal vector potential, and B, H and μr anywhere in the mesh.
+//! The solved field read through its model: B, H and μr anywhere in the mesh (the layer above
+//! the model; the data of a solution live in [`crate::solution`]).
 
 use crate::element::{ElementGeometry, Local, MAX_NODES};
+use crate::error::SolverError;
 use crate::locate::Locator;
 use crate::mesh::Point;
+use crate::solution::{PointField, Solution};
 use crate::solve::Model;
-use crate::SolverError;
 
 /// Barycentric tolerance for a point on an element's boundary.
 const INSIDE: f64 = 1e-9;
@@ -34,34 +36,6 @@ fn locate_curved(model: &Model, locator: &Locator, p: Point) -> Option<(usize, [
         .into_iter()
         .find_map(|e| inside(e, crate::locate::barycentric(mesh.corners(e), p)))
         .or(found)
-}
-
-/// A solved field: A_φ = Σ a_i φ_i + B0 r/2, the discrete reaction field plus the exact
-/// uniform background (reduced-potential split: the background is never discretised).
-#[derive(Debug, Clone, PartialEq)]
-pub struct Solution {
-    /// Nodal coefficients a_i of the reaction part, in Wb/m.
-    pub a: Vec<f64>,
-    /// Uniform background B_z in T.
-    pub b0: f64,
-}
-
-/// The field at one point.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct PointField {
-    /// The point (r, z) in m.
-    pub at: Point,
-    /// A_φ in Wb/m.
-    pub a: f64,
-    /// (B_r, B_z) in T.
-    pub b: [f64; 2],
-    /// (H_r, H_z) in A/m: ν (B − J0 e_z), J0 a magnet's polarization (0 elsewhere).
-    pub h: [f64; 2],
-    /// Secant relative permeability |B − J0 e_z|/(μ0|H|) of the material there (|B|/(μ0|H|)
-    /// outside magnets, the recoil permeability in one).
-    pub mu_r: f64,
-    /// Region tag of the evaluating triangle.
-    pub tag: u32,
 }
 
 impl Solution {

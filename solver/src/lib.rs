@@ -46,8 +46,10 @@
 // Element kernels index local nodes a, b as the formulas do; iterator chains would hide them.
 #![allow(clippy::needless_range_loop)]
 
+pub mod adjacency;
 pub mod assembly;
 pub mod cholesky;
+pub mod constants;
 pub mod dofs;
 pub mod element;
 pub mod error;
@@ -64,17 +66,15 @@ pub mod problem;
 pub mod quadratic;
 pub mod quadrature;
 pub mod recover;
+pub mod solution;
 pub mod solve;
 pub mod weak_form;
 
+pub use constants::MU0;
 pub use error::SolverError;
-pub use field::{PointField, Solution};
 pub use material::Material;
 pub use mesh::FeMesh;
 pub use nonlinear::{NewtonReport, NewtonSettings};
 pub use problem::{Excitation, Problem, RegionProps};
+pub use solution::{PointField, Solution};
 pub use solve::{LinearOperator, Model};
-
-/// Permeability of vacuum μ0 in H/m (the exact pre-2019 SI value 4π·10⁻⁷; the CODATA 2018
-/// value differs by 5.5·10⁻¹⁰ relative, far below any discretisation error here).
-pub const MU0: f64 = 4.0e-7 * std::f64::consts::PI;

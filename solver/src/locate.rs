@@ -6,7 +6,7 @@ use crate::mesh::{FeMesh, Point};
 /// boxes overlap it, in triangle order (so the answer is deterministic).
 #[derive(Debug, Clone)]
 pub struct Locator {
-    patches: crate::recover::Patches,
+    patches: crate::adjacency::Patches,
     origin: Point,
     cell: [f64; 2],
     dims: [usize; 2],
@@ -71,7 +71,7 @@ impl Locator {
             }
         }
         Self {
-            patches: crate::recover::Patches::new(mesh),
+            patches: crate::adjacency::Patches::new(mesh),
             origin: lo,
             cell,
             dims: [nx, ny],
@@ -81,7 +81,7 @@ impl Locator {
     }
 
     /// Node → element adjacency used for recovered point values.
-    pub fn patches(&self) -> &crate::recover::Patches {
+    pub fn patches(&self) -> &crate::adjacency::Patches {
         &self.patches
     }
 

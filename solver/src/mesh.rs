@@ -1,6 +1,6 @@
 //! The triangle mesh as the solver sees it: no knowledge of how it was made.
 
-use crate::SolverError;
+use crate::error::SolverError;
 
 /// A point (r, z) in metres.
 pub type Point = [f64; 2];

@@ -1,8 +1,9 @@
 //! What to solve: a mesh, per-region properties and the nodes held by Dirichlet conditions.
 
+use crate::constants::MU0;
+use crate::error::SolverError;
 use crate::material::Material;
 use crate::mesh::FeMesh;
-use crate::{SolverError, MU0};
 
 /// Physical properties of one tagged region.
 #[derive(Debug, Clone, PartialEq)]

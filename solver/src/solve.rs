@@ -5,14 +5,14 @@ use crate::assembly;
 use crate::cholesky::{SpdFactor, SymbolicSpd};
 use crate::dofs::DofMap;
 use crate::element::ElementGeometry;
+use crate::error::SolverError;
 use crate::exterior::{exterior_operator, ExactExterior, ExteriorOperator};
-use crate::field::Solution;
 use crate::material::Material;
 use crate::mesh::FeMesh;
 use crate::pattern::Pattern;
 use crate::pattern::NO_SLOT;
 use crate::problem::{Excitation, Problem, RegionProps};
-use crate::SolverError;
+use crate::solution::Solution;
 
 /// Everything about a problem that does not depend on the field values.
 #[derive(Debug)]
@@ -25,8 +25,6 @@ pub struct Model {
     pub(crate) symbolic: SymbolicSpd,
     pub(crate) fixed: Vec<(u32, f64)>,
     pub(crate) background: f64,
-    /// Constant element stiffness of linear elements for the Newton residual (lazy).
-    pub(crate) linear_elements: std::sync::OnceLock<Vec<Option<crate::nonlinear::LinearElement>>>,
     pub(crate) exterior: Option<Exterior>,
     /// The exact exterior as posed (to pose the first-order companion problem).
     pub(crate) exact_exterior: Option<ExactExterior>,
@@ -161,7 +159,6 @@ impl Model {
             symbolic,
             fixed,
             background: background_b,
-            linear_elements: std::sync::OnceLock::new(),
             exterior,
             exact_exterior: exact_exterior.clone(),
         })

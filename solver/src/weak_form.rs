@@ -115,7 +115,7 @@ pub fn residual_and_tangent(
 ) -> (Local, LocalMatrix) {
     let with_tangent = tangent != Tangent::None;
     let n = g.nodes;
-    let nu0 = 1.0 / crate::MU0;
+    let nu0 = 1.0 / crate::constants::MU0;
     let mut r = [0.0; MAX_NODES];
     let mut t = [[0.0; MAX_NODES]; MAX_NODES];
     for q in &g.qp {
@@ -252,7 +252,7 @@ mod tests {
         let p3 = [[0.2, 0.0], [0.6, 0.1], [0.3, 0.5]];
         let mut p6 = [p3[0], p3[1], p3[2], [0.4, 0.05], [0.45, 0.3], [0.25, 0.25]];
         p6[4][0] += 0.03;
-        let (nu, j0) = (1.0 / (1.05 * crate::MU0), -1.2);
+        let (nu, j0) = (1.0 / (1.05 * crate::constants::MU0), -1.2);
         for g in [
             ElementGeometry::new(p3),
             ElementGeometry::quadratic(p6).unwrap(),

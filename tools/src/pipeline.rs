@@ -549,7 +549,7 @@ pub fn run_from(
     };
     drop(tangent);
     drop(op);
-    let field = opts.keep_field.then(|| FieldSnapshot {
+    let field = opts.keep_field.then_some(FieldSnapshot {
         model,
         sol,
         locator,

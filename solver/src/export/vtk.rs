@@ -11,11 +11,12 @@ use rayon::prelude::*;
 
 use super::region_points::RegionPoints;
 use super::vtu::{DataArray, Grid, VtuError};
-use crate::field::Solution;
+use crate::adjacency::Patches;
+use crate::constants::MU0;
+use crate::error::SolverError;
 use crate::mesh::FeMesh;
-use crate::recover::Patches;
+use crate::solution::Solution;
 use crate::solve::Model;
-use crate::{SolverError, MU0};
 
 /// What the solver does not know about a case: its title and region names, and any further
 /// field-data entries the caller wants in the file.

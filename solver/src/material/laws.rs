@@ -7,7 +7,8 @@
 use super::invert::solve_increasing;
 use super::table::BhTable;
 use super::{MAX_MU_R, MIN_SATURATION};
-use crate::{SolverError, MU0};
+use crate::constants::MU0;
+use crate::error::SolverError;
 
 /// A single-valued, isotropic, strictly monotone magnetisation law.
 #[derive(Debug, Clone, PartialEq)]

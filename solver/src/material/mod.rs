@@ -28,7 +28,8 @@ pub const MIN_SATURATION: f64 = 1e-3;
 pub use table::BhTable;
 pub use table_check::{check_bh_points, BhColumn, BhTableFault};
 
-use crate::{SolverError, MU0};
+use crate::constants::MU0;
+use crate::error::SolverError;
 
 /// A magnetic material of a region.
 #[derive(Debug, Clone, PartialEq)]

@@ -15,7 +15,8 @@
 //! of slope 1/μ0 whose offset B − μ0 H is the saturation polarisation.
 
 use super::table_check::validate;
-use crate::{SolverError, MU0};
+use crate::constants::MU0;
+use crate::error::SolverError;
 
 /// One polynomial piece H(b0 + u) = h0 + u (c1 + u (c2 + u c3)), valid for u ≥ 0 up to the
 /// next piece; `w0` = ∫_0^b0 H dB.

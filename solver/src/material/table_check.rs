@@ -2,7 +2,8 @@
 //! (numbered from 1 as given) and, where one column alone is at fault, the column.
 
 use super::MAX_MU_R;
-use crate::{SolverError, MU0};
+use crate::constants::MU0;
+use crate::error::SolverError;
 
 /// Relative slack in the μr ≥ 1 checks, so that round-off in tabulated deep-saturation points
 /// (B = Js + μ0 H exactly) is not rejected.

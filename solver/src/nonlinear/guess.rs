@@ -4,11 +4,14 @@
 
 use rayon::prelude::*;
 
-use crate::field::Solution;
+use crate::assembly;
+use crate::constants::MU0;
+use crate::error::SolverError;
 use crate::material::Material;
+use crate::solution::Solution;
 use crate::solve::Model;
-use crate::{assembly, SolverError, MU0};
 
+use super::system::MagnetostaticSystem;
 use super::{Excitation, NewtonReport, NewtonSettings};
 
 /// Tolerance (residual and update) of the first-order solve a second-order one starts from.
@@ -63,7 +66,7 @@ impl Model {
             ..*settings
         };
         let guess = first.guess_from_linear(first_linear, sub)?;
-        let (sol, first_report, _) = first.newton_from(guess, sub, &loose)?;
+        let (sol, first_report, _) = MagnetostaticSystem::new(first, sub).newton(guess, &loose)?;
         let mut a = vec![0.0; self.mesh.nodes.len()];
         a[..nv].copy_from_slice(&sol.a);
         // Mid-edge nodes: the first-order field at the edge's midpoint.

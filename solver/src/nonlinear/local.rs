@@ -20,17 +20,18 @@ use crate::assembly;
 use crate::cholesky::SymbolicSpd;
 use crate::dofs::DofMap;
 use crate::element::{Local, LocalMatrix};
-use crate::field::Solution;
 use crate::mesh::FeMesh;
 use crate::pattern::Pattern;
-use crate::solve::Model;
+use crate::solution::Solution;
 use crate::weak_form::Tangent;
 
-use super::newton::root_of_slope;
-use super::{dot, norm, Excitation};
+use super::newton::damped_length;
+use super::system::MagnetostaticSystem;
 
-/// A quadrature point is on the knee where its differential reluctivity exceeds this multiple
-/// of its secant reluctivity (ν_d/ν = μ_apparent/μ_differential; 1 for a linear law).
+fn norm(x: &[f64]) -> f64 {
+    x.iter().map(|v| v * v).sum::<f64>().sqrt()
+}
+
 const KNEE_RATIO: f64 = 10.0;
 /// Largest patch relaxed, as a fraction of the free unknowns; beyond it the knee is not
 /// local and the global iteration handles it alone (a cap of 5000 nodes left the
@@ -50,17 +51,18 @@ struct Patch {
     mesh: FeMesh,
 }
 
-impl Model {
+impl MagnetostaticSystem<'_, '_> {
     /// Elements with a quadrature point on the knee of their law at the field `a`.
     fn knee_elements(&self, a: &[f64], b0: f64) -> Vec<usize> {
+        let m = self.model;
         let field = Solution { a: a.to_vec(), b0 };
-        (0..self.geom.len())
+        (0..m.geom.len())
             .into_par_iter()
             .filter(|&e| {
-                let mat = self.material(e);
+                let mat = m.material(e);
                 !mat.is_linear()
-                    && self.geom[e].qp.iter().any(|q| {
-                        let b = field.b_q(self, e, q);
+                    && m.geom[e].qp.iter().any(|q| {
+                        let b = field.b_q(m, e, q);
                         let (nu, nu_d) = mat.reluctivities(b[0].hypot(b[1]));
                         nu_d > KNEE_RATIO * nu
                     })
@@ -70,11 +72,12 @@ impl Model {
 
     /// The patch of the knee elements at `a`, or None when there is no knee or it is too large.
     fn knee_patch(&self, a: &[f64], b0: f64) -> Option<Patch> {
+        let m = self.model;
         let knee = self.knee_elements(a, b0);
-        let n_nodes = self.mesh.nodes.len();
+        let n_nodes = m.mesh.nodes.len();
         // Nodes carrying the exterior operator stay held: its coupling is dense and global.
         let mut surface = vec![false; n_nodes];
-        if let Some(x) = &self.exterior {
+        if let Some(x) = &m.exterior {
             for &n in &x.op.nodes {
                 surface[n as usize] = true;
             }
@@ -82,36 +85,31 @@ impl Model {
         let mut inside = vec![false; n_nodes];
         let mut count = 0;
         for &e in &knee {
-            for &v in self.mesh.element_nodes(e).iter() {
+            for &v in m.mesh.element_nodes(e).iter() {
                 let v = v as usize;
-                if !inside[v] && !surface[v] && self.dofs.free(v as u32).is_some() {
+                if !inside[v] && !surface[v] && m.dofs.free(v as u32).is_some() {
                     inside[v] = true;
                     count += 1;
                 }
             }
         }
-        if count == 0 || count as f64 > MAX_PATCH_FRACTION * self.dofs.n_free as f64 {
+        if count == 0 || count as f64 > MAX_PATCH_FRACTION * m.dofs.n_free as f64 {
             return None;
         }
-        let elements: Vec<usize> = (0..self.geom.len())
-            .filter(|&e| {
-                self.mesh
-                    .element_nodes(e)
-                    .iter()
-                    .any(|&v| inside[v as usize])
-            })
+        let elements: Vec<usize> = (0..m.geom.len())
+            .filter(|&e| m.mesh.element_nodes(e).iter().any(|&v| inside[v as usize]))
             .collect();
         let held: Vec<u32> = (0..n_nodes as u32)
             .filter(|&v| !inside[v as usize])
             .collect();
         let mesh = FeMesh {
             nodes: Vec::new(),
-            triangles: elements.iter().map(|&e| self.mesh.triangles[e]).collect(),
+            triangles: elements.iter().map(|&e| m.mesh.triangles[e]).collect(),
             tags: Vec::new(),
-            mid: if self.mesh.mid.is_empty() {
+            mid: if m.mesh.mid.is_empty() {
                 Vec::new()
             } else {
-                elements.iter().map(|&e| self.mesh.mid[e]).collect()
+                elements.iter().map(|&e| m.mesh.mid[e]).collect()
             },
         };
         Some(Patch {
@@ -127,18 +125,16 @@ impl Model {
         patch: &Patch,
         pattern: Option<&Pattern>,
         a: &[f64],
-        exc: Excitation<'_>,
     ) -> (Vec<f64>, Vec<f64>) {
         let tangent = if pattern.is_some() {
             Tangent::Newton
         } else {
             Tangent::None
         };
-        self.init_linear_parts();
         let terms: Vec<(Local, LocalMatrix)> = patch
             .elements
             .par_iter()
-            .map(|&e| self.element_term(e, a, exc, tangent))
+            .map(|&e| self.element_term(e, a, tangent))
             .collect();
         let mut r = vec![0.0; patch.dofs.n_free];
         let mut t = vec![0.0; pattern.map_or(0, |p| p.nnz())];
@@ -156,21 +152,15 @@ impl Model {
     /// fallen by [`LOCAL_REDUCTION`] or below `floor`. `global` is the global residual at `a`
     /// (over the free unknowns), whose patch rows are the patch residual. Returns the local
     /// iterations done.
-    pub(super) fn relax_knee(
-        &self,
-        a: &mut [f64],
-        global: &[f64],
-        exc: Excitation<'_>,
-        floor: f64,
-    ) -> usize {
-        let Some(patch) = self.knee_patch(a, exc.b0) else {
+    pub(super) fn relax_knee(&self, a: &mut [f64], global: &[f64], floor: f64) -> usize {
+        let Some(patch) = self.knee_patch(a, self.exc.b0) else {
             return 0;
         };
         let mut r: Vec<f64> = patch
             .dofs
             .free_nodes
             .iter()
-            .map(|&n| global[self.dofs.index[n as usize] as usize])
+            .map(|&n| global[self.model.dofs.index[n as usize] as usize])
             .collect();
         let target = (LOCAL_REDUCTION * norm(&r)).max(floor);
         if norm(&r) <= target {
@@ -180,7 +170,7 @@ impl Model {
         let Ok(symbolic) = SymbolicSpd::analyse(&pattern) else {
             return 0;
         };
-        let (_, mut t) = self.patch_terms(&patch, Some(&pattern), a, exc);
+        let (_, mut t) = self.patch_terms(&patch, Some(&pattern), a);
         let moved = |a: &[f64], delta: &[f64], alpha: f64| {
             let mut x = a.to_vec();
             for (i, &n) in patch.dofs.free_nodes.iter().enumerate() {
@@ -195,22 +185,11 @@ impl Model {
             };
             let mut delta: Vec<f64> = r.iter().map(|v| -v).collect();
             factor.solve_in_place(&mut delta);
-            let g0 = dot(&r, &delta);
-            let (r1, t1) = self.patch_terms(&patch, Some(&pattern), &moved(a, &delta, 1.0), exc);
-            let g1 = dot(&r1, &delta);
-            // The global acceptance rule (see `line_search`).
-            let alpha = if norm(&r1) < norm(&r) || g1 <= 0.0 {
-                1.0
-            } else {
-                root_of_slope(g0, g1, |alpha| {
-                    dot(
-                        &self
-                            .patch_terms(&patch, None, &moved(a, &delta, alpha), exc)
-                            .0,
-                        &delta,
-                    )
-                })
-            };
+            let (r1, t1) = self.patch_terms(&patch, Some(&pattern), &moved(a, &delta, 1.0));
+            // The global acceptance rule (see the line search of `newton`).
+            let alpha = damped_length(&r, &delta, &r1, |alpha| {
+                self.patch_terms(&patch, None, &moved(a, &delta, alpha)).0
+            });
             for (i, &n) in patch.dofs.free_nodes.iter().enumerate() {
                 a[n as usize] += alpha * delta[i];
             }
@@ -218,7 +197,7 @@ impl Model {
             (r, t) = if alpha == 1.0 {
                 (r1, t1)
             } else {
-                self.patch_terms(&patch, Some(&pattern), a, exc)
+                self.patch_terms(&patch, Some(&pattern), a)
             };
         }
         done

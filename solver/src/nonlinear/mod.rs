@@ -9,25 +9,30 @@
 //! diverge, and near the solution full steps give quadratic convergence.
 
 //!
-//! Files: this one holds the settings, the report and the strategy (which start, which
-//! budget); [`newton`] the iteration and its line search; [`local`] the knee elimination
-//! between its steps; [`guess`] the first guesses; [`terms`] the element residuals and
-//! tangents and their assembly.
+//! Files: this one holds the strategy (which start, which budget); [`newton`] the
+//! physics-free iteration with its line search, settings, report and the trait it iterates
+//! on; [`system`] the magnetostatic problem as that trait (owning its element caches);
+//! [`terms`] the element residuals and tangents, [`cache`] the linear elements' constant parts; [`local`] the knee elimination between
+//! steps; [`guess`] the first guesses.
 
+mod cache;
 mod guess;
 mod local;
-mod newton;
+pub mod newton;
+mod system;
 mod terms;
 
-pub(crate) use terms::LinearElement;
-
 pub use crate::problem::Excitation;
+pub use newton::{NewtonReport, NewtonSettings};
 
+use crate::assembly;
 use crate::cholesky::SpdFactor;
-use crate::dofs::FIXED;
-use crate::field::Solution;
+use crate::error::{SolverError, StopReason};
+use crate::solution::Solution;
 use crate::solve::Model;
-use crate::{assembly, SolverError};
+use crate::weak_form::Tangent;
+
+use system::MagnetostaticSystem;
 
 /// Iterations a second-order solve spends from the linear guess before it restarts from the
 /// first-order field (see `first_order_guess`); mild cases converge well within it (the
@@ -37,51 +42,6 @@ const DIRECT_BUDGET: usize = 12;
 /// Iterations a second-order solve from a given start (continuation, warm start) spends
 /// before it falls back to the cold strategy.
 const WARM_BUDGET: usize = 25;
-
-/// Stopping rules of the Newton iteration.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct NewtonSettings {
-    /// Stop when ‖R‖ ≤ this × ‖R(0)‖ (the residual with no reaction field) …
-    pub residual_tol: f64,
-    /// … and the last update ‖Δa‖ ≤ this × ‖a‖.
-    pub update_tol: f64,
-    /// Give up after this many iterations.
-    pub max_iterations: usize,
-}
-
-impl Default for NewtonSettings {
-    fn default() -> Self {
-        Self {
-            residual_tol: 1e-8,
-            update_tol: 1e-10,
-            max_iterations: 50,
-        }
-    }
-}
-
-/// How a converged Newton solve went.
-#[derive(Debug, Clone, PartialEq, Default)]
-pub struct NewtonReport {
-    /// Newton iterations (corrections applied) done.
-    pub iterations: usize,
-    /// Tangent factorisations done (the last correction may reuse the previous tangent).
-    pub factorizations: usize,
-    /// Iterations of abandoned attempts, included in `iterations` (second order: from a given
-    /// start, or from the linear guess, that did not converge within their budgets).
-    pub abandoned_iterations: usize,
-    /// Iterations of the first-order solve a second-order one started from (not included in
-    /// `iterations`; each costs about a quarter of a second-order one).
-    pub start_iterations: usize,
-    /// Local Newton iterations of the knee elimination (see `local`), the first-order start's
-    /// included; each factorises only the knee elements' patch.
-    pub local_iterations: usize,
-    /// Relative residual ‖R‖/‖R(0)‖ at the start and after each iteration.
-    pub residual_history: Vec<f64>,
-    /// Relative update ‖Δa‖/‖a‖ of each iteration.
-    pub update_history: Vec<f64>,
-    /// Step length α of each iteration (1 for a full Newton step).
-    pub step_lengths: Vec<f64>,
-}
 
 impl Model {
     /// Solves a problem with saturating (or linear) materials by Newton's method, starting from
@@ -109,11 +69,12 @@ impl Model {
         settings: &NewtonSettings,
     ) -> Result<(Solution, NewtonReport, Option<SpdFactor<'_>>), SolverError> {
         let second_order = self.mesh.order() == 2 && !self.is_linear();
+        let sys = MagnetostaticSystem::new(self, exc);
         let mut warm_spent = 0;
         if let Some(s) = start {
-            let a = self.with_fixed(&s.a, exc.a_fixed);
+            let a = sys.with_fixed(&s.a);
             if !second_order {
-                return self.newton_from(a, exc, settings);
+                return sys.newton(a, settings);
             }
             // A continuation or warm start that does not converge within its budget falls back
             // to the cold strategy below (`ramp` at second order: 1 A and 2 A in two steps
@@ -122,14 +83,14 @@ impl Model {
                 max_iterations: settings.max_iterations.min(WARM_BUDGET),
                 ..*settings
             };
-            match self.newton_from(a, exc, &budget) {
+            match sys.newton(a, &budget) {
                 Err(SolverError::NotConverged { iterations, .. }) => warm_spent = iterations,
                 other => return other,
             }
         }
         if !second_order {
             let a = self.initial_guess(exc)?;
-            return self.newton_from(a, exc, settings);
+            return sys.newton(a, settings);
         }
         // Second order, cold: Newton from the linear guess on a budget, then, if that does not
         // converge, from the first-order field on the same mesh (see `first_order_guess`);
@@ -154,7 +115,7 @@ impl Model {
         let saturated = first.saturates(&first_linear, exc.b0);
         let spent = match (!saturated).then(|| self.initial_guess(exc)).transpose()? {
             None => 0,
-            Some(guess) => match self.newton_from(guess, exc, &budget) {
+            Some(guess) => match sys.newton(guess, &budget) {
                 Ok((sol, mut rep, t)) => {
                     rep.iterations += warm_spent;
                     rep.abandoned_iterations = warm_spent;
@@ -167,22 +128,20 @@ impl Model {
         let (guess, start) = self.first_order_guess(&first, first_linear, exc, settings)?;
         let mut rest = *settings;
         rest.max_iterations = settings.max_iterations.saturating_sub(spent).max(1);
-        let (sol, mut rep, t) = self.newton_from(guess, exc, &rest).map_err(|e| match e {
+        let (sol, mut rep, t) = sys.newton(guess, &rest).map_err(|e| match e {
             // Report the whole count against the user's limit, not the budget left.
             SolverError::NotConverged {
                 iterations,
                 residual,
-                reason,
+                reason: StopReason::IterationLimit { .. },
                 history,
-            } if reason.starts_with("iteration limit") => SolverError::NotConverged {
+            } => SolverError::NotConverged {
                 iterations: iterations + spent + warm_spent,
                 residual,
-                reason: format!(
-                    "iteration limit {} reached (counting {} before the restart from the \
-                         first-order field)",
-                    settings.max_iterations,
-                    spent + warm_spent
-                ),
+                reason: StopReason::IterationLimit {
+                    limit: settings.max_iterations,
+                    before_restart: spent + warm_spent,
+                },
                 history,
             },
             other => other,
@@ -208,7 +167,9 @@ impl Model {
             a_fixed,
             b0: sol.b0,
         };
-        self.tangent(&sol.a, exc)
+        let sys = MagnetostaticSystem::new(self, exc);
+        self.symbolic
+            .factorize(&sys.assemble(&sol.a, Tangent::Newton).1)
     }
 
     /// The response δa = T⁻¹ f(δJ) of the linearised problem to current densities `currents`
@@ -233,35 +194,4 @@ impl Model {
         }
         Solution { a, b0: 0.0 }
     }
-
-    /// Reaction coefficients `a` with the Dirichlet values of `a_fixed` imposed.
-    pub(super) fn with_fixed(&self, a: &[f64], a_fixed: &[f64]) -> Vec<f64> {
-        (0..self.mesh.nodes.len())
-            .map(|n| {
-                if self.dofs.index[n] == FIXED {
-                    a_fixed[n]
-                } else {
-                    a[n]
-                }
-            })
-            .collect()
-    }
-
-    /// ‖a‖ over the free nodes.
-    pub(super) fn free_norm(&self, a: &[f64]) -> f64 {
-        self.dofs
-            .free_nodes
-            .iter()
-            .map(|&n| a[n as usize] * a[n as usize])
-            .sum::<f64>()
-            .sqrt()
-    }
-}
-
-pub(super) fn dot(x: &[f64], y: &[f64]) -> f64 {
-    x.iter().zip(y).map(|(a, b)| a * b).sum()
-}
-
-pub(super) fn norm(x: &[f64]) -> f64 {
-    dot(x, x).sqrt()
 }

@@ -14,10 +14,11 @@
 //!    (image of a dipole in a sphere with B_n = 0; only the l = 1 image is non-zero at the
 //!    centre, so this holds for any source layout).
 
-use crate::field::Solution;
+use crate::constants::MU0;
+use crate::error::SolverError;
 use crate::locate::Locator;
+use crate::solution::Solution;
 use crate::solve::Model;
-use crate::{SolverError, MU0};
 
 /// Moment contributions of one region tag, in A·m².
 #[derive(Debug, Clone, Copy, Default, PartialEq)]

@@ -10,7 +10,7 @@
 //! magnets the usual ∫ (∫_0^B H·dB) dV (½ ∫ B·H for linear materials, ½ L I² for one winding).
 //! The ½ ∫ B·H of a field with magnets is not used: B·H is not an energy density inside them.
 
-use crate::field::Solution;
+use crate::solution::Solution;
 use crate::solve::Model;
 
 /// Field energy W = ∫ w(B) dV in J (see the module documentation): ∫ (∫_0^B H·dB) dV without

@@ -1,6 +1,6 @@
 //! Flux linkage of windings with uniform current density.
 
-use crate::field::Solution;
+use crate::solution::Solution;
 use crate::solve::Model;
 
 /// ∫ A_φ dV over the elements of region `tag`, in Wb·m.

@@ -16,11 +16,12 @@
 
 use rayon::prelude::*;
 
-use crate::field::Solution;
+use crate::constants::MU0;
+use crate::error::SolverError;
 use crate::locate::Locator;
 use crate::mesh::Point;
+use crate::solution::Solution;
 use crate::solve::Model;
-use crate::{SolverError, MU0};
 
 /// Indicator of one element.
 #[derive(Debug, Clone, Copy, PartialEq)]

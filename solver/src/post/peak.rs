@@ -7,9 +7,9 @@
 //! than a stated distance from every listed corner. Recovery, not the raw element value, because
 //! the raw value carries the basis-switch error of the layer under a magnetic surface.
 
-use crate::field::Solution;
 use crate::locate::Locator;
 use crate::mesh::Point;
+use crate::solution::Solution;
 use crate::solve::Model;
 
 /// Where and how large the peak is.

@@ -1,10 +1,10 @@
 //! Field samples along a straight line, for CSV export.
 
-use crate::field::{PointField, Solution};
+use crate::error::SolverError;
 use crate::locate::Locator;
 use crate::mesh::Point;
+use crate::solution::{PointField, Solution};
 use crate::solve::Model;
-use crate::SolverError;
 
 /// `n` ≥ 2 evenly spaced samples from `from` to `to` (both included).
 pub fn sample_line(

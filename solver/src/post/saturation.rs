@@ -1,6 +1,6 @@
 //! How much of a region is saturated.
 
-use crate::field::Solution;
+use crate::solution::Solution;
 use crate::solve::Model;
 
 /// Volume fraction of region `tag` where |B| exceeds `threshold` (T), integrated with the
