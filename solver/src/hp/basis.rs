@@ -107,7 +107,7 @@ impl TriangleBasis {
         start..start + self.per_cell()
     }
 
-    /// What local function `index` is attached to.
+    /// What local function `index` is attached to (an index ≥ `len()` is a caller's bug: panics).
     pub fn mode(&self, index: usize) -> Mode {
         assert!(
             index < self.len(),
@@ -151,7 +151,7 @@ impl TriangleBasis {
 
     /// Values and reference gradients (∂/∂ξ, ∂/∂η) of every local function at (ξ, η);
     /// `reversed[e]` tells whether local edge e runs against its global orientation.
-    /// `values` and `grads` must hold [`len`](Self::len) entries.
+    /// `values` and `grads` must hold exactly [`len`](Self::len) entries (else a caller's bug: panics).
     pub fn eval(
         &self,
         xi: f64,
