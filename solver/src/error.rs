@@ -73,6 +73,17 @@ pub enum SolverError {
         /// Relative residual before each iteration and at the end.
         history: Vec<f64>,
     },
+    /// No quadrature rule exists for what was asked.
+    #[error(transparent)]
+    Quadrature(#[from] crate::quadrature::QuadratureError),
+    /// An element's polynomial degree is outside the supported range.
+    #[error("polynomial degree {degree} is not supported: the element degree must be 1 to {max}")]
+    ElementDegree {
+        /// The degree asked for.
+        degree: usize,
+        /// The highest degree supported.
+        max: usize,
+    },
     /// Writing an output file failed.
     #[error("cannot write {path}: {reason}")]
     Write {

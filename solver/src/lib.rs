@@ -30,7 +30,8 @@
 //! # Module map
 //! - [`mesh`]: the triangle mesh the solver reads (nodes, triangles, region tags).
 //! - [`element`]: shape functions and per-element geometry with quadrature points.
-//! - [`quadrature`]: triangle quadrature rules.
+//! - [`quadrature`]: quadrature rules by degree (triangle and Gauss on a line).
+//! - [`hp`]: the high-order (hp) element space: hierarchical basis on the reference triangle.
 //! - [`material`]: linear and saturating laws H(|B|).
 //! - [`dofs`], [`pattern`], [`weak_form`], [`assembly`]: from mesh to sparse system.
 //! - [`cholesky`]: the sparse direct solve (faer).
@@ -56,6 +57,7 @@ pub mod error;
 pub mod export;
 pub mod exterior;
 pub mod field;
+pub mod hp;
 pub mod locate;
 pub mod material;
 pub mod mesh;

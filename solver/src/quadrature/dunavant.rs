@@ -1,13 +1,8 @@
-//! Quadrature rules on the reference triangle, in barycentric coordinates.
+//! Dunavant's symmetric rules on the triangle (D. A. Dunavant, "High degree efficient symmetrical
+//! Gaussian quadrature rules for the triangle", Int. J. Numer. Meth. Eng. 21, 1129–1148, 1985).
+//! Kept as constants because the first- and second-order elements index them directly.
 
-/// One point of a rule: barycentric coordinates and a weight (weights sum to 1).
-#[derive(Debug, Clone, Copy)]
-pub struct RulePoint {
-    /// Barycentric coordinates (λ0, λ1, λ2).
-    pub bary: [f64; 3],
-    /// Weight as a fraction of the triangle area.
-    pub weight: f64,
-}
+use super::RulePoint;
 
 /// Dunavant's 7-point rule, exact for polynomials of degree 5
 /// (D. A. Dunavant, Int. J. Numer. Meth. Eng. 21, 1129–1148, 1985, Table for p = 5).
