@@ -41,6 +41,7 @@
 //! - [`field`], [`locate`], [`recover`]: the solved field, evaluation at points, patch recovery.
 //! - [`post`]: dipole moment, energy, flux linkage, probes, core peak field.
 //! - [`export`]: VTK output.
+//! - [`hp`]: the high-order (hp) space under construction: geometry maps, degrees of freedom.
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 // Element kernels index local nodes a, b as the formulas do; iterator chains would hide them.
@@ -54,6 +55,7 @@ pub mod error;
 pub mod export;
 pub mod exterior;
 pub mod field;
+pub mod hp;
 pub mod locate;
 pub mod material;
 pub mod mesh;
