@@ -97,8 +97,10 @@ impl Curve {
 ///
 /// The shorter of the two arcs between the end points is taken, so an edge must span less than
 /// half a turn (mesh edges span a small fraction of it). The parameter is the angle, not arc
-/// length: on a slender spheroid near its tip the speed |γ'| varies along a long edge, which
-/// may fold an element; the map's fold check reports that instead of returning it.
+/// length: on a slender spheroid near its tip the speed |γ'| varies along a long edge. Tip
+/// elements of a 1:100 spheroid with edges up to 0.4 rad were measured not to fold (test
+/// `tip_elements_of_a_slender_spheroid_map_without_folding`); where one would, the map's fold
+/// check reports it instead of returning it.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Arc {
     /// The curve.

@@ -338,3 +338,43 @@ fn an_arc_bulging_past_the_opposite_vertex_is_refused_as_folded() {
     ));
     assert!(ElementMap::new([a, [2.0, 0.0], b], curves, 11).is_ok());
 }
+
+#[test]
+fn tip_elements_of_a_slender_spheroid_map_without_folding() {
+    // The arcs are parametrised by the angle, not arc length, and near the tip of a slender
+    // spheroid (axis ratio 100, tip curvature radius a²/c = 0.01) the speed along an arc
+    // changes by orders of magnitude. Boundary elements from the tip outwards, edges from
+    // 1e-3 to 15 (0.001 to 0.4 rad of angle), the inner vertex on the chord's inward normal
+    // at 0.3 or 0.8 chord lengths, must still map one-to-one and keep the edge on the curve.
+    let (a, c) = (1.0, 100.0);
+    let e = Curve::Ellipse {
+        centre: [0.0, 0.0],
+        semi_r: a,
+        semi_z: c,
+    };
+    for dth in [0.001, 0.01, 0.1, 0.4] {
+        for start in [0.0, 0.05, 0.2] {
+            let mut p0 = e.point(0.5 * PI - start);
+            if start == 0.0 {
+                p0[0] = 0.0; // the tip is on the axis
+            }
+            let p1 = e.point(0.5 * PI - start - dth);
+            let (dx, dz) = (p1[0] - p0[0], p1[1] - p0[1]);
+            let len = dx.hypot(dz);
+            // Going down the flank from p0 to p1, the inward normal (toward the axis) is on
+            // the right: (dz, −dx)/len has r < 0.
+            let n = [dz / len, -dx / len];
+            for depth in [0.3, 0.8] {
+                let m = [0.5 * (p0[0] + p1[0]), 0.5 * (p0[1] + p1[1])];
+                let q = [
+                    (m[0] + depth * len * n[0]).max(0.0),
+                    m[1] + depth * len * n[1],
+                ];
+                let map = ElementMap::new([p1, p0, q], [Some(e), None, None], 0)
+                    .unwrap_or_else(|err| panic!("span {dth} from {start}: {err}"));
+                let x = map.position(0.5, 0.0);
+                assert!(e.level(x).abs() < 1e-14, "{}", e.level(x));
+            }
+        }
+    }
+}
