@@ -6,9 +6,8 @@
 //! A straight triangle gets the [`Affine`] map. A triangle with one or more edges on an exact
 //! [`Curve`] gets the [`Blended`] map: the blending-function (transfinite) interpolation of
 //! Gordon & Hall (Numer. Math. 21, 109–129, 1973 [pages from memory]), in the per-edge form for
-//! triangles used by
-//! Szabó & Babuška (*Finite Element Analysis*, Wiley 1991, the blending-function chapter
-//! [chapter from memory]):
+//! triangles used by Szabó & Babuška (*Finite Element Analysis*, Wiley 1991, the
+//! blending-function chapter [chapter from memory]):
 //!
 //! ```text
 //!   x(ξ, η) = Σ_i λ_i v_i + Σ_{curved k} λ_a λ_b · d_k(t_k) / (t_k (1 − t_k)),
