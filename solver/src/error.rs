@@ -84,6 +84,70 @@ pub enum SolverError {
         /// The highest degree supported.
         max: usize,
     },
+    /// A geometry map of an element folds: det J ≤ 0 at one of its check points.
+    #[error("element {element}: its geometry map folds (det J = {det:e} at ξ = {xi}, η = {eta})")]
+    FoldedElement {
+        /// Element index.
+        element: usize,
+        /// The offending Jacobian determinant, m².
+        det: f64,
+        /// Reference coordinate ξ of the check point.
+        xi: f64,
+        /// Reference coordinate η of the check point.
+        eta: f64,
+    },
+    /// An edge declared on an exact curve has an end point off that curve.
+    #[error("element {element}, edge {edge}: end point (r = {r} m, z = {z} m) is off its curve (relative level {off:e})")]
+    EdgeOffCurve {
+        /// Element index.
+        element: usize,
+        /// Local edge (0, 1 or 2).
+        edge: usize,
+        /// Radius of the end point, m.
+        r: f64,
+        /// Axial position of the end point, m.
+        z: f64,
+        /// Its relative level (0 on the curve).
+        off: f64,
+    },
+    /// A curved edge cannot be mapped (bad curve data, or an arc of half a turn or more).
+    #[error("element {element}, edge {edge}: {reason}")]
+    BadCurvedEdge {
+        /// Element index.
+        element: usize,
+        /// Local edge (0, 1 or 2; 3 or more when the declaration itself is out of range).
+        edge: usize,
+        /// What is wrong.
+        reason: String,
+    },
+    /// A polynomial degree per element is missing or out of range.
+    #[error("element {element}: polynomial degree {degree} is not in 1..={max}")]
+    BadDegree {
+        /// Element index (the number of elements when the list is too short).
+        element: usize,
+        /// The degree given (0 when missing).
+        degree: u32,
+        /// Largest degree accepted.
+        max: u32,
+    },
+    /// An edge is shared by more than two triangles (the mesh is not a surface).
+    #[error("edge {a}–{b} is shared by {count} triangles (at most 2 allowed)")]
+    NonManifoldEdge {
+        /// Lower vertex of the edge.
+        a: u32,
+        /// Higher vertex of the edge.
+        b: u32,
+        /// Number of triangles sharing it.
+        count: usize,
+    },
+    /// A vertex or edge named as fixed is not part of the hp space.
+    #[error("fixed {what} {index} is not part of the hp space")]
+    NotInSpace {
+        /// "vertex" or "edge".
+        what: &'static str,
+        /// The node or edge index given.
+        index: usize,
+    },
     /// Writing an output file failed.
     #[error("cannot write {path}: {reason}")]
     Write {

@@ -42,6 +42,7 @@
 //! - [`field`], [`locate`], [`recover`]: the solved field, evaluation at points, patch recovery.
 //! - [`post`]: dipole moment, energy, flux linkage, probes, core peak field.
 //! - [`export`]: VTK output.
+//! - [`hp`]: the high-order (hp) space under construction: geometry maps, degrees of freedom.
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 // Element kernels index local nodes a, b as the formulas do; iterator chains would hide them.
