@@ -58,6 +58,14 @@ pub enum SolverError {
         /// Axial position in m.
         z: f64,
     },
+    /// An element's cell (bubble) block is not positive definite, so it cannot be condensed.
+    #[error(
+        "element {element}: its cell unknowns cannot be condensed (block not positive definite)"
+    )]
+    CellCondensation {
+        /// Triangle index.
+        element: usize,
+    },
     /// The nonlinear iteration did not reach its tolerances.
     #[error(
         "Newton iteration did not converge: relative residual {residual:.3e} after {iterations} iterations ({reason}); residuals {}",

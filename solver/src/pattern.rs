@@ -102,6 +102,37 @@ impl Pattern {
             slots,
         }
     }
+    /// The lower-triangle pattern of `n` unknowns coupled within each list of `lists` (one per
+    /// element, any length) and densely within `group`; no element scatter map (elements of
+    /// varying size look their entries up with [`Self::slot`]).
+    pub fn from_lists(n: usize, lists: &[Vec<usize>], group: &[usize]) -> Self {
+        let mut cols: Vec<Vec<usize>> = vec![Vec::new(); n];
+        for list in lists.iter().map(|l| &l[..]).chain(std::iter::once(group)) {
+            for &i in list {
+                for &j in list {
+                    if i >= j {
+                        cols[j].push(i);
+                    }
+                }
+            }
+        }
+        let mut col_ptr = Vec::with_capacity(n + 1);
+        let mut row_idx = Vec::new();
+        col_ptr.push(0);
+        for c in &mut cols {
+            c.sort_unstable();
+            c.dedup();
+            row_idx.extend_from_slice(c);
+            col_ptr.push(row_idx.len());
+        }
+        Self {
+            n,
+            nodes_per_element: 0,
+            col_ptr,
+            row_idx,
+            slots: Vec::new(),
+        }
+    }
 
     /// Slot of the coupling of unknowns (i, j), either order, if stored.
     pub fn slot(&self, i: usize, j: usize) -> Option<u32> {

@@ -12,6 +12,7 @@ pub mod case;
 pub mod commands;
 pub mod demag;
 pub mod geometry;
+pub mod hp_geometry;
 pub mod operating_point;
 pub mod output;
 pub mod output_names;

@@ -213,7 +213,7 @@ pub fn discretise_refined(
 
 /// The curved outlines second-order elements follow: a sphere or spheroid core, and the outer
 /// sphere of radius `ro` that bounds the surroundings.
-fn outlines(case: &Case, ro: f64) -> Vec<quadratic::Outline> {
+pub fn outlines(case: &Case, ro: f64) -> Vec<quadratic::Outline> {
     let mut out = vec![quadratic::Outline::Ellipse {
         centre_z: 0.0,
         semi_r: ro,

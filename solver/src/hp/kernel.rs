@@ -1,0 +1,112 @@
+//! Element integrals of the weak form (crate documentation) for an element of any degree:
+//!
+//! ```text
+//!   K_ab = ∫_e ν B(φ_a)·B(φ_b) dV        f_a = ∫_e J φ_a dV + ∫_e [ν J0 − (ν − ν0) B0] B_z(φ_a) dV
+//! ```
+//! with B(φ) = (−∂φ/∂z, ∂φ/∂r + φ/r) and dV = 2π r dA. The basis is tabulated once per
+//! (degree, edge orientation, rule); per element only the map's Jacobian and the 2πr weight
+//! change. Buffers are sized at run time by the element's number of functions.
+
+use nalgebra::{DMatrix, DVector};
+
+use super::map::ElementMap;
+use super::tabulation::Tabulation;
+
+/// The B-operators and values of an element's active functions at its quadrature points.
+#[derive(Debug, Clone)]
+pub struct ElementPoints {
+    /// Number of active functions.
+    pub n: usize,
+    /// Physical (r, z) of each point, m.
+    pub x: Vec<[f64; 2]>,
+    /// Volume measure dV = 2π r |det J| w/2 of each point, m³.
+    pub dv: Vec<f64>,
+    /// φ_a at each point, point-major (`n` per point).
+    pub phi: Vec<f64>,
+    /// (B_r, B_z)(φ_a) at each point, point-major, 1/m · (unit of φ).
+    pub curl: Vec<[f64; 2]>,
+}
+
+impl ElementPoints {
+    /// Evaluates the functions `active` (indices into the tabulated basis, in local order) of
+    /// the element with map `map` at the points of `tab`.
+    pub fn new(map: &ElementMap, tab: &Tabulation, active: &[usize]) -> Self {
+        let n = active.len();
+        let nq = tab.points();
+        let mut x = Vec::with_capacity(nq);
+        let mut dv = Vec::with_capacity(nq);
+        let mut phi = Vec::with_capacity(nq * n);
+        let mut curl = Vec::with_capacity(nq * n);
+        let affine = map.is_affine().then(|| map.jacobian(0.0, 0.0));
+        for q in 0..nq {
+            let [xi, eta] = tab.point(q);
+            let p = map.position(xi, eta);
+            let jac = affine.unwrap_or_else(|| map.jacobian(xi, eta));
+            // Reference weights are fractions of the reference area ½.
+            let da = jac.det().abs() * 0.5 * tab.weight(q);
+            let r = p[0];
+            x.push(p);
+            dv.push(2.0 * std::f64::consts::PI * r * da);
+            let values = tab.values(q);
+            let grads = tab.grads(q);
+            for &i in active {
+                let v = values[i];
+                let [dr, dz] = jac.physical_gradient(grads[i]);
+                phi.push(v);
+                curl.push([-dz, dr + v / r]);
+            }
+        }
+        Self {
+            n,
+            x,
+            dv,
+            phi,
+            curl,
+        }
+    }
+
+    /// Number of quadrature points.
+    pub fn points(&self) -> usize {
+        self.dv.len()
+    }
+
+    /// Volume of the element's ring, m³.
+    pub fn volume(&self) -> f64 {
+        self.dv.iter().sum()
+    }
+
+    /// K_ab = ∫ ν B(φ_a)·B(φ_b) dV for a reluctivity `nu(q)` per point (m/H).
+    pub fn stiffness(&self, nu: impl Fn(usize) -> f64) -> DMatrix<f64> {
+        // K = G Gᵀ with G_a,(q,c) = B_c(φ_a)(x_q) √(ν dV_q): one matrix product.
+        let n = self.n;
+        let nq = self.points();
+        let mut g = DMatrix::zeros(n, 2 * nq);
+        for q in 0..nq {
+            let s = (nu(q) * self.dv[q]).sqrt();
+            for a in 0..n {
+                let c = self.curl[q * n + a];
+                g[(a, 2 * q)] = s * c[0];
+                g[(a, 2 * q + 1)] = s * c[1];
+            }
+        }
+        &g * g.transpose()
+    }
+
+    /// f_a = ∫ J φ_a dV + ∫ s B_z(φ_a) dV for a uniform current density `j` (A/m²) and a
+    /// uniform source field `s` = ν J0 − (ν − ν0) B0 (A/m: a magnet's polarization and the
+    /// magnetisation of a material by the background).
+    pub fn load(&self, j: f64, s: f64) -> DVector<f64> {
+        let n = self.n;
+        let mut f = DVector::zeros(n);
+        if j == 0.0 && s == 0.0 {
+            return f;
+        }
+        for q in 0..self.points() {
+            let dv = self.dv[q];
+            for a in 0..n {
+                f[a] += (j * self.phi[q * n + a] + s * self.curl[q * n + a][1]) * dv;
+            }
+        }
+        f
+    }
+}
