@@ -32,7 +32,9 @@ pub use mesh::{aspect_ratio, signed_area, triangle_angles, Mesh, MeshStats, Node
 pub use pslg::MIN_INPUT_ANGLE_DEG;
 pub use refine::MAX_SIZE_PASSES;
 pub use spec::{Band, MeshSpec, Point, Refinement, Region, Shape};
-pub use validate::{MAX_ANGLE_FLOOR_DEG, OUTER_ARC_TOLERANCE};
+pub use validate::{
+    MAX_ANGLE_FLOOR_DEG, MAX_GRADED_LAYERS, MIN_GRADED_RELATIVE_SIZE, OUTER_ARC_TOLERANCE,
+};
 
 /// Builds the mesh described by `spec`, or says which input is wrong.
 ///

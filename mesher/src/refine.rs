@@ -9,14 +9,15 @@
 //! stay the polygon built from `arc_tolerance`, they are not re-projected onto the curve.
 
 use spade::{
-    AngleLimit, ConstrainedDelaunayTriangulation, Point2, RefinementParameters, Triangulation,
+    AngleLimit, ConstrainedDelaunayTriangulation, Point2, PositionInTriangulation,
+    RefinementParameters, Triangulation,
 };
 
 use crate::error::MeshError;
 use crate::mesh::{Mesh, NodeKind};
 use crate::pslg::Pslg;
 use crate::sizing::SizeField;
-use crate::spec::{MeshSpec, Point};
+use crate::spec::{MeshSpec, Point, Refinement};
 
 /// Size passes allowed before giving up; each pass shrinks the too-large triangles by about √3, so
 /// this covers a size range far beyond 10⁹.
@@ -71,6 +72,8 @@ fn triangulate_and_refine(spec: &MeshSpec, pslg: &Pslg) -> Result<Mesh, MeshErro
         });
     }
 
+    insert_graded_points(&mut cdt, spec)?;
+
     let field = SizeField::new(spec, &pslg.outlines);
     let angle = AngleLimit::from_deg(spec.angle_floor_deg);
     let mut passes = 0;
@@ -120,6 +123,23 @@ fn triangulate_and_refine(spec: &MeshSpec, pslg: &Pslg) -> Result<Mesh, MeshErro
         });
     }
     Ok(mesh)
+}
+
+/// Makes every graded point inside the domain a vertex, so that its layers are centred on a node
+/// (a region's corner already is one; a point on a constraint edge splits it).
+fn insert_graded_points(cdt: &mut Cdt, spec: &MeshSpec) -> Result<(), MeshError> {
+    for refinement in &spec.refinements {
+        if let Refinement::Graded { at, .. } = *refinement {
+            let p = Point2::new(at[0], at[1]);
+            if let PositionInTriangulation::OnFace(_)
+            | PositionInTriangulation::OnEdge(_)
+            | PositionInTriangulation::OnVertex(_) = cdt.locate(p)
+            {
+                cdt.insert(p).map_err(triangulation_error)?;
+            }
+        }
+    }
+    Ok(())
 }
 
 /// Replaces the throw-away triangles inside the graded bands by their grids.

@@ -1,5 +1,8 @@
-//! The target element size h(x): the smallest of the far size, the size of the region holding x, and
-//! `size_f + grading · dist(x, f)` over the refinement features f.
+//! The target element size h(x): the smallest of the far size, the size of the region holding x,
+//! `size_f + grading · dist(x, f)` over the refinement features f, and
+//! `max(inner_g, min(dist(x, g), size_g + grading · dist(x, g)))` over the graded points g
+//! (h proportional to the distance inside the graded zone, which is what makes Delaunay
+//! refinement lay out geometric layers: each triangle is about as large as its distance to g).
 
 use crate::shape::{bounding_box, box_distance, segment_distance, Outline};
 use crate::spec::{Band, MeshSpec, Point, Refinement};
@@ -9,6 +12,22 @@ struct Boundary {
     segments: Vec<[Point; 2]>,
     bbox: [f64; 4],
     size: f64,
+}
+
+/// A point with geometric grading toward it (see [`Refinement::Graded`]).
+struct GradedPoint {
+    at: Point,
+    size: f64,
+    /// `size · factor^layers`: the size of the elements touching the point.
+    inner: f64,
+}
+
+impl GradedPoint {
+    /// Whether a triangle edge of length `len` with its triangle's centroid `d` from the point is
+    /// larger than the graded target there, with grading `g` beyond the graded zone.
+    fn exceeded_by(&self, len: f64, d: f64, g: f64) -> bool {
+        len > self.inner && (len > d || len > self.size + g * d)
+    }
 }
 
 /// Refinement points in a bucket grid: "is any size + g·dist below len near p?" visits only the
@@ -124,6 +143,7 @@ pub(crate) struct SizeField<'a> {
     outlines: &'a [Outline],
     region_sizes: Vec<f64>,
     points: Vec<(Point, f64)>,
+    graded: Vec<GradedPoint>,
     boundaries: Vec<Boundary>,
     cloud: Option<Cloud>,
     floor: f64,
@@ -134,11 +154,22 @@ impl<'a> SizeField<'a> {
     pub fn new(spec: &MeshSpec, outlines: &'a [Outline]) -> Self {
         let region_sizes: Vec<f64> = spec.regions.iter().map(|r| r.size).collect();
         let mut points = Vec::new();
+        let mut graded = Vec::new();
         let mut boundaries = Vec::new();
         let mut cloud_points = Vec::new();
         for refinement in &spec.refinements {
             match *refinement {
                 Refinement::Point { at, size } => points.push((at, size)),
+                Refinement::Graded {
+                    at,
+                    size,
+                    factor,
+                    layers,
+                } => graded.push(GradedPoint {
+                    at,
+                    size,
+                    inner: size * factor.powi(layers as i32),
+                }),
                 Refinement::Cloud { ref points } => cloud_points.extend_from_slice(points),
                 Refinement::Boundary { region, size } => {
                     let v = &outlines[region].vertices;
@@ -163,6 +194,7 @@ impl<'a> SizeField<'a> {
         let floor = region_sizes
             .iter()
             .chain(points.iter().map(|p| &p.1))
+            .chain(graded.iter().map(|p| &p.inner))
             .chain(cloud_points.iter().map(|p| &p.1))
             .chain(boundaries.iter().map(|b| &b.size))
             .fold(spec.far_size, |m, &s| m.min(s));
@@ -173,6 +205,7 @@ impl<'a> SizeField<'a> {
             outlines,
             region_sizes,
             points,
+            graded,
             boundaries,
             cloud,
             floor,
@@ -198,6 +231,10 @@ impl<'a> SizeField<'a> {
         }
         for &(at, size) in &self.points {
             h = h.min(size + self.grading * (p[0] - at[0]).hypot(p[1] - at[1]));
+        }
+        for g in &self.graded {
+            let d = (p[0] - g.at[0]).hypot(p[1] - g.at[1]);
+            h = h.min(g.inner.max(d.min(g.size + self.grading * d)));
         }
         for b in &self.boundaries {
             if b.size + self.grading * box_distance(p, &b.bbox) >= h {
@@ -234,6 +271,11 @@ impl<'a> SizeField<'a> {
         let g = self.grading;
         for &(at, size) in &self.points {
             if len > size + g * (p[0] - at[0]).hypot(p[1] - at[1]) {
+                return true;
+            }
+        }
+        for gp in &self.graded {
+            if gp.exceeded_by(len, (p[0] - gp.at[0]).hypot(p[1] - gp.at[1]), g) {
                 return true;
             }
         }
@@ -320,6 +362,43 @@ mod tests {
             let h = f.target(p, region);
             assert!(f.exceeded_by(h * 1.001, p, region));
             assert!(!f.exceeded_by(h * 0.999, p, region));
+        }
+    }
+
+    #[test]
+    fn graded_target_is_the_distance_between_the_inner_and_outer_sizes() {
+        let mut s = spec();
+        s.refinements.push(Refinement::Graded {
+            at: [0.3, -0.3],
+            size: 0.01,
+            factor: 0.2,
+            layers: 3,
+        });
+        let outlines: Vec<Outline> = s
+            .regions
+            .iter()
+            .map(|r| Outline::new(&r.shape, 1e-4))
+            .collect();
+        let f = SizeField::new(&s, &outlines);
+        let inner = 0.01 * 0.2f64.powi(3);
+        assert!((f.floor() - inner).abs() < 1e-18);
+        // Inside the innermost size: clipped; in the graded zone: the distance itself; beyond
+        // the zone: size + grading · d (grading 0.5 here, so past d = 0.02).
+        for (d, h) in [
+            (0.0, inner),
+            (5e-5, inner),
+            (1e-3, 1e-3),
+            (0.015, 0.015),
+            (0.1, 0.06),
+        ] {
+            let p = [0.3 + d, -0.3];
+            assert!(
+                (f.target(p, None) - h).abs() < 1e-15,
+                "{d}: {}",
+                f.target(p, None)
+            );
+            assert!(f.exceeded_by(h * 1.001, p, None));
+            assert!(!f.exceeded_by(h * 0.999, p, None));
         }
     }
 

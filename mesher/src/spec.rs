@@ -72,6 +72,24 @@ pub enum Refinement {
         /// Element size on the boundary (m).
         size: f64,
     },
+    /// Geometric grading toward one point, e.g. a corner where the field is singular and
+    /// high-order elements need layers shrinking by a fixed factor: the target size at distance d
+    /// is `max(size · factor^layers, min(d, size + grading · d))`, so the elements touching the
+    /// point are about `size · factor^layers`, the ones at distance about `size · factor^k` about
+    /// that distance (k = 0 … layers, the outermost about `size`), and beyond `size` the sizes
+    /// grow as around a [`Refinement::Point`] of that size. The element count grows linearly in
+    /// `layers`.
+    Graded {
+        /// Location (r, z) in m.
+        at: Point,
+        /// Element size at the outer edge of the graded zone, which reaches about this far (m).
+        size: f64,
+        /// Ratio of the sizes of successive layers toward the point, in (0, 1); 0.15–0.2 is
+        /// common practice for hp elements.
+        factor: f64,
+        /// Number of layers, at most [`crate::MAX_GRADED_LAYERS`].
+        layers: u32,
+    },
     /// Many points with their sizes, e.g. from an error indicator (adaptive refinement); looked
     /// up through a bucket grid, so thousands cost little.
     Cloud {

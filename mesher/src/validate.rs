@@ -12,6 +12,17 @@ pub const MAX_ANGLE_FLOOR_DEG: f64 = 30.0;
 /// coarser polygon than for the regions does no harm.
 pub const OUTER_ARC_TOLERANCE: f64 = 1e-3;
 
+/// Most layers of a [`Refinement::Graded`] point: with factor 0.15–0.2 (common practice for hp
+/// elements) 16 layers span 11–13 decades of size, more than any accuracy in double precision
+/// needs.
+pub const MAX_GRADED_LAYERS: u32 = 16;
+
+/// Smallest innermost size of a graded point (`size · factor^layers`) relative to the outer
+/// radius: the edge vectors of the innermost elements then keep about four significant digits
+/// (f64 ε · 1e12 ≈ 2e-4) wherever the point lies in the domain. The mesher itself was measured
+/// to place clean layers down to 3e-15 m around a corner 35 mm off the origin.
+pub const MIN_GRADED_RELATIVE_SIZE: f64 = 1e-12;
+
 fn positive(what: &'static str, value: f64) -> Result<(), MeshError> {
     if value.is_finite() && value > 0.0 {
         Ok(())
@@ -92,6 +103,37 @@ pub(crate) fn check_numbers(spec: &MeshSpec) -> Result<(), MeshError> {
                 finite("refinement point r", at[0])?;
                 finite("refinement point z", at[1])?;
                 positive("refinement size", size)?;
+            }
+            Refinement::Graded {
+                at,
+                size,
+                factor,
+                layers,
+            } => {
+                finite("graded point r", at[0])?;
+                finite("graded point z", at[1])?;
+                positive("graded size", size)?;
+                if !(factor > 0.0 && factor < 1.0) {
+                    return Err(MeshError::BadSize {
+                        what: "graded factor (must be between 0 and 1)",
+                        value: factor,
+                    });
+                }
+                if layers > MAX_GRADED_LAYERS {
+                    return Err(MeshError::BadSize {
+                        what: "graded layers (too many)",
+                        value: layers as f64,
+                    });
+                }
+                let inner = size * factor.powi(layers as i32);
+                // Finite and ≥ 0 here (size and factor are checked); an underflow to 0 is refused too.
+                if inner < MIN_GRADED_RELATIVE_SIZE * spec.outer_radius {
+                    return Err(MeshError::BadSize {
+                        what:
+                            "graded innermost size (size · factor^layers, too small for the domain)",
+                        value: inner,
+                    });
+                }
             }
             Refinement::Cloud { ref points } => {
                 for &(at, size) in points {

@@ -44,6 +44,16 @@ fn target_size(spec: &MeshSpec, p: [f64; 2]) -> f64 {
             Refinement::Point { at, size } => {
                 h = h.min(size + spec.grading * (p[0] - at[0]).hypot(p[1] - at[1]));
             }
+            Refinement::Graded {
+                at,
+                size,
+                factor,
+                layers,
+            } => {
+                let d = (p[0] - at[0]).hypot(p[1] - at[1]);
+                let inner = size * factor.powi(layers as i32);
+                h = h.min(inner.max(d.min(size + spec.grading * d)));
+            }
             Refinement::Cloud { ref points } => {
                 for &(at, size) in points {
                     h = h.min(size + spec.grading * (p[0] - at[0]).hypot(p[1] - at[1]));

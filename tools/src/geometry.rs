@@ -51,6 +51,92 @@ pub fn core_corners(case: &Case) -> Vec<Point> {
     }
 }
 
+/// Sharp corners of the meridian section where the field is singular, each once, in m: the
+/// core's corners ([`core_corners`]) and every winding corner off the axis (on the axis a
+/// winding's end is a straight cut through the body of revolution, not a corner). Spheres and
+/// spheroids have none.
+pub fn singular_points(case: &Case) -> Vec<Point> {
+    let mut points = core_corners(case);
+    for w in &case.windings {
+        let (z0, z1) = (w.centre - 0.5 * w.length, w.centre + 0.5 * w.length);
+        for at in [
+            [w.inner_radius, z0],
+            [w.outer_radius, z0],
+            [w.outer_radius, z1],
+            [w.inner_radius, z1],
+        ] {
+            if at[0] > 0.0 && !points.contains(&at) {
+                points.push(at);
+            }
+        }
+    }
+    points
+}
+
+/// Size ratio of successive layers toward a singular point with `mesh.corner_layers` > 0
+/// (0.15–0.2 is common practice for hp elements).
+pub const CORNER_LAYER_FACTOR: f64 = 0.2;
+
+/// Smallest innermost layer size relative to the surroundings radius: ten times the mesher's
+/// floor ([`axicore_mesher::MIN_GRADED_RELATIVE_SIZE`]), so that a case never asks for more.
+const MIN_CORNER_RELATIVE_SIZE: f64 = 1e-11;
+
+/// Replaces the core corners' point refinements of `spec` by geometric grading toward every
+/// singular point of the case with `layers` layers (fewer where the innermost size would fall
+/// below [`MIN_CORNER_RELATIVE_SIZE`] × the surroundings radius). The graded zone of a point
+/// ends at the finest boundary size of the outlines through it (the core's or a winding's),
+/// where it meets the mesh of those outlines. Points inside a graded band are left to the band.
+fn grade_singular_points(case: &Case, spec: &mut MeshSpec, layers: u32) {
+    let corners = core_corners(case);
+    spec.refinements
+        .retain(|r| !matches!(r, Refinement::Point { at, .. } if corners.contains(at)));
+    let on_outline = |p: Point, s: &Shape| match *s {
+        Shape::Rect {
+            r_min,
+            r_max,
+            z_min,
+            z_max,
+        } => {
+            let inside = (r_min..=r_max).contains(&p[0]) && (z_min..=z_max).contains(&p[1]);
+            inside && (p[0] == r_min || p[0] == r_max || p[1] == z_min || p[1] == z_max)
+        }
+        Shape::HalfEllipse { .. } => false,
+    };
+    let mut graded = Vec::new();
+    for at in singular_points(case) {
+        let in_band = spec
+            .bands
+            .iter()
+            .any(|b| at[0] <= b.r_max && (b.z_min..=b.z_max).contains(&at[1]));
+        let size = spec
+            .refinements
+            .iter()
+            .filter_map(|r| match *r {
+                Refinement::Boundary { region, size }
+                    if on_outline(at, &spec.regions[region].shape) =>
+                {
+                    Some(size)
+                }
+                _ => None,
+            })
+            .fold(f64::INFINITY, f64::min);
+        if in_band || !size.is_finite() {
+            continue;
+        }
+        let floor = MIN_CORNER_RELATIVE_SIZE * spec.outer_radius;
+        let most = ((floor / size).ln() / CORNER_LAYER_FACTOR.ln())
+            .floor()
+            .max(0.0) as u32;
+        graded.push(Refinement::Graded {
+            at,
+            size,
+            factor: CORNER_LAYER_FACTOR,
+            layers: layers.min(most),
+        });
+    }
+    spec.refinements.extend(graded);
+}
+
 /// Element size ratio of second- to first-order meshes at the same fineness: a 6-node
 /// triangle carries about four times the unknowns of a 3-node one of the same size, so twice
 /// the size keeps the node count of a fineness close across orders (measured on the built-in
@@ -183,5 +269,107 @@ pub fn mesh_spec(case: &Case) -> MeshSpec {
             .unwrap_or(core_thickness(&core.shape) / (3.0 * case.mesh.fineness));
         crate::slender::add_bands(case, &mut spec, size, f);
     }
+    if case.mesh.corner_layers > 0 {
+        grade_singular_points(case, &mut spec, case.mesh.corner_layers);
+    }
     spec
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::case::parse_case;
+
+    fn case(text: &str) -> Case {
+        parse_case(text, "c.toml").unwrap()
+    }
+
+    const TUBE: &str = "title = \"t\"\n[core]\nshape = \"tube\"\nlength = \"40 mm\"\ndiameter = \"8 mm\"\nbore = \"3 mm\"\nmaterial = \"pure-iron\"\n[[winding]]\nturns = 10\ncurrent = \"1 A\"\ninner_radius = \"4 mm\"\nouter_radius = \"6 mm\"\nlength = \"40 mm\"\n";
+
+    #[test]
+    fn singular_points_are_the_core_and_winding_corners_each_once() {
+        // The example rod (r 4 mm, |z| ≤ 35 mm) in a winding 4.2–6 mm, |z| ≤ 30 mm: 2 + 4.
+        let rod = case(crate::EXAMPLE_CASE);
+        let p = singular_points(&rod);
+        assert_eq!(p.len(), 6, "{p:?}");
+        for at in [
+            [4e-3, -35e-3],
+            [4e-3, 35e-3],
+            [4.2e-3, -30e-3],
+            [6e-3, 30e-3],
+        ] {
+            assert!(
+                p.iter()
+                    .any(|q| (q[0] - at[0]).abs() < 1e-12 && (q[1] - at[1]).abs() < 1e-12),
+                "{at:?} in {p:?}"
+            );
+        }
+        // A tube's four corners; the winding's inner corners on its outer corners count once.
+        assert_eq!(singular_points(&case(TUBE)).len(), 6);
+        // A winding from the axis has no corners there; a sphere none at all.
+        let coil = "title = \"t\"\n[[winding]]\nturns = 10\ncurrent = \"1 A\"\ninner_radius = \"0 mm\"\nouter_radius = \"6 mm\"\nlength = \"40 mm\"\n";
+        assert_eq!(singular_points(&case(coil)).len(), 2);
+        let sphere = "title = \"t\"\n[core]\nshape = \"sphere\"\ndiameter = \"10 mm\"\nmaterial = \"pure-iron\"\n[background]\nb_axial = \"1 mT\"\n";
+        assert!(singular_points(&case(sphere)).is_empty());
+    }
+
+    #[test]
+    fn corner_layers_replace_the_corner_points_by_graded_ones() {
+        let plain = case(crate::EXAMPLE_CASE);
+        let mut graded = plain.clone();
+        graded.mesh.corner_layers = 3;
+        let (a, b) = (mesh_spec(&plain), mesh_spec(&graded));
+        let points = |s: &MeshSpec| {
+            s.refinements
+                .iter()
+                .filter(|r| matches!(r, Refinement::Point { .. }))
+                .count()
+        };
+        assert_eq!(points(&a), 2);
+        assert_eq!(points(&b), 0);
+        let layers: Vec<(u32, f64)> = b
+            .refinements
+            .iter()
+            .filter_map(|r| match *r {
+                Refinement::Graded { layers, size, .. } => Some((layers, size)),
+                _ => None,
+            })
+            .collect();
+        assert_eq!(layers.len(), 6);
+        // Core corners end at the core's boundary size, winding corners at the winding's.
+        let core_boundary = a
+            .refinements
+            .iter()
+            .find_map(|r| match *r {
+                Refinement::Boundary { region: 0, size } => Some(size),
+                _ => None,
+            })
+            .unwrap();
+        assert!(layers.iter().all(|&(n, _)| n == 3));
+        assert_eq!(layers[0].1, core_boundary);
+        assert_eq!(a.regions, b.regions);
+    }
+
+    #[test]
+    fn corner_layers_stop_above_the_smallest_size() {
+        let mut deep = case(crate::EXAMPLE_CASE);
+        deep.mesh.corner_layers = axicore_mesher::MAX_GRADED_LAYERS;
+        let spec = mesh_spec(&deep);
+        for r in &spec.refinements {
+            if let Refinement::Graded {
+                size,
+                factor,
+                layers,
+                ..
+            } = *r
+            {
+                let inner = size * factor.powi(layers as i32);
+                assert!(
+                    inner >= MIN_CORNER_RELATIVE_SIZE * spec.outer_radius,
+                    "{inner}"
+                );
+                assert!(inner < MIN_CORNER_RELATIVE_SIZE * spec.outer_radius / factor);
+            }
+        }
+    }
 }

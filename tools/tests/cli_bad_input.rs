@@ -296,6 +296,23 @@ fn element_orders_other_than_one_or_two_are_refused_as_such() {
 }
 
 #[test]
+fn corner_layers_other_than_whole_numbers_up_to_the_mesher_cap_are_refused() {
+    // The mesher takes at most axicore_mesher::MAX_GRADED_LAYERS (16) layers.
+    for (name, layers) in [
+        ("layers-1", "-1"),
+        ("layers17", "17"),
+        ("layers2.5", "2.5"),
+        ("layers-mm", "\"3 mm\""),
+    ] {
+        expect_fault(
+            name,
+            &format!("{GOOD}[mesh]\ncorner_layers = {layers}\n"),
+            &["mesh.corner_layers"],
+        );
+    }
+}
+
+#[test]
 fn probe_points_outside_the_mesh_name_their_option_and_write_nothing() {
     // The built-in example's air region ends about 0.11 m from the origin.
     let dir = std::env::temp_dir().join(format!("axicore-bad-probe-{}", std::process::id()));

@@ -41,6 +41,7 @@ fineness = 0.3
 order = 1
 angle_floor = 25
 max_nodes = 200000
+corner_layers = 2
 [solver]
 max_iterations = 30
 "#;

@@ -242,6 +242,10 @@ pub struct MeshControls {
     pub max_nodes: usize,
     /// Element order: 1 (3-node) or 2 (6-node, curved edges on curved outlines).
     pub order: usize,
+    /// Layers of geometric grading toward every singular point of the geometry
+    /// ([`crate::geometry::singular_points`]); 0 (the default) leaves the corners' usual
+    /// refinement (`mesh.corner_layers`).
+    pub corner_layers: u32,
 }
 
 impl MeshControls {
@@ -277,6 +281,7 @@ impl Default for MeshControls {
             arc_tolerance: None,
             max_nodes: 2_000_000,
             order: 2,
+            corner_layers: 0,
         }
     }
 }

@@ -5,7 +5,7 @@ use std::path::Path;
 
 use super::read::read_text;
 
-use axicore_mesher::MAX_ANGLE_FLOOR_DEG;
+use axicore_mesher::{MAX_ANGLE_FLOOR_DEG, MAX_GRADED_LAYERS};
 use axicore_solver::NewtonSettings;
 
 use toml::{Table, Value};
@@ -335,6 +335,7 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         "arc_tolerance",
         "max_nodes",
         "order",
+        "corner_layers",
     ])?;
     let d = MeshControls::default();
     let order = match s.quantity("order", Dimension::Dimensionless)? {
@@ -375,6 +376,17 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         Some(n) => n as usize,
         None => d.max_nodes,
     };
+    // The mesher takes at most MAX_GRADED_LAYERS; a fraction would mean nothing.
+    let corner_layers = match s.quantity("corner_layers", Dimension::Dimensionless)? {
+        None => d.corner_layers,
+        Some(n) if n.fract() == 0.0 && (0.0..=MAX_GRADED_LAYERS as f64).contains(&n) => n as u32,
+        Some(n) => {
+            return Err(s.fault(
+                "corner_layers",
+                &format!("{n} must be a whole number from 0 to {MAX_GRADED_LAYERS}"),
+            ))
+        }
+    };
     Ok(MeshControls {
         fineness,
         core_size: s.positive("core_size", Dimension::Length)?,
@@ -386,6 +398,7 @@ fn parse_mesh(s: &Section) -> Result<MeshControls, CaseError> {
         arc_tolerance,
         max_nodes,
         order,
+        corner_layers,
     })
 }
 
