@@ -44,19 +44,19 @@ type TabKey = (usize, [bool; 3], usize);
 /// Everything about an hp problem that does not depend on the solution.
 #[derive(Debug)]
 pub struct HpModel {
-    mesh: FeMesh,
-    regions: Vec<RegionProps>,
-    background: f64,
-    dofs: HpDofs,
-    maps: Vec<ElementMap>,
-    curved: Vec<bool>,
+    pub(crate) mesh: FeMesh,
+    pub(crate) regions: Vec<RegionProps>,
+    pub(crate) background: f64,
+    pub(crate) dofs: HpDofs,
+    pub(crate) maps: Vec<ElementMap>,
+    pub(crate) curved: Vec<bool>,
     /// Per global dof its equation, or [`NO_EQUATION`].
-    eq: Vec<u32>,
-    n_eq: usize,
-    pattern: Pattern,
-    symbolic: SymbolicSpd,
-    exterior: Option<HpExterior>,
-    tabs: BTreeMap<TabKey, Tabulation>,
+    pub(crate) eq: Vec<u32>,
+    pub(crate) n_eq: usize,
+    pub(crate) pattern: Pattern,
+    pub(crate) symbolic: SymbolicSpd,
+    pub(crate) exterior: Option<HpExterior>,
+    pub(crate) tabs: BTreeMap<TabKey, Tabulation>,
 }
 
 /// A solved hp field: every global dof's coefficient (reaction part) and the background.
@@ -226,7 +226,7 @@ impl HpModel {
     }
 
     /// The element's functions as basis indices, in the local order of [`HpDofs`].
-    fn active(&self, t: usize) -> Result<(TriangleBasis, Vec<usize>), SolverError> {
+    pub(crate) fn active(&self, t: usize) -> Result<(TriangleBasis, Vec<usize>), SolverError> {
         let ed = self.dofs.element(t);
         let basis = TriangleBasis::new(ed.degree as usize)?;
         let mut active: Vec<usize> = vec![0, 1, 2];
