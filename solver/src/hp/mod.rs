@@ -5,6 +5,7 @@
 //! Conventions (reference triangle, edge numbering and orientation, order of the local
 //! functions) are stated in [`basis`] and [`dofs`].
 
+pub mod adapt;
 pub mod basis;
 pub mod condense;
 pub mod curve;

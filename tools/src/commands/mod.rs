@@ -12,6 +12,7 @@ mod example;
 mod failure;
 mod materials;
 mod mesh;
+mod moment;
 mod ramp;
 mod solve;
 mod sweep;
@@ -40,6 +41,8 @@ Examples:
   axicore demag --out demag.csv --json demag.json --plots plots/
                                                   Nm, Nf of rods over L/D and χ vs the formulas
   axicore demag my.toml                           the same verdict for the core of a case
+  axicore moment my.toml --tolerance 1e-8         dipole moment of a linear case to 1e-8
+                                                  (elements of rising degree)
   axicore example > my.toml                       start a case from the example
   axicore materials                               list built-in materials
   axicore materials nickel-iron-80 --csv          print a material's B–H curve
@@ -49,7 +52,7 @@ Exit codes: 0 success, 1 failure, 2 bad input, 3 the nonlinear solve did not con
 
 /// The short usage line printed when no subcommand is given.
 const USAGE: &str =
-    "usage: axicore <solve|mesh|ramp|sweep|merge|demag|example|materials> [CASE] [OPTIONS] (axicore --help for more)";
+    "usage: axicore <solve|mesh|ramp|sweep|merge|demag|moment|example|materials> [CASE] [OPTIONS] (axicore --help for more)";
 
 /// Axisymmetric finite-element magnetostatics for rod-core coils: dipole moment per winding
 /// on a finite core, fields, inductance, VTK maps.
@@ -80,6 +83,8 @@ enum Command {
     /// Demagnetizing factors Nm and Nf over a grid of L/D, χ and bore (or of one case's
     /// core), against the formulas users substitute for them.
     Demag(demag::DemagArgs),
+    /// The dipole moment of a linear case to a tolerance, by elements of rising degree.
+    Moment(moment::MomentArgs),
     /// Print the built-in example case file.
     Example,
     /// List the built-in materials, or print or draw one material's B–H curve.
@@ -105,6 +110,7 @@ pub fn main() -> ExitCode {
         Command::Sweep(a) => sweep::sweep(a, quiet),
         Command::Merge(a) => sweep::merge_shards(a),
         Command::Demag(a) => demag::demag(a, quiet),
+        Command::Moment(a) => moment::moment(a, quiet),
         Command::Example => example::example(),
         Command::Materials(a) => materials::materials(a),
     };

@@ -1,0 +1,159 @@
+//! Error control by the degree: solve at p = p_min, p_min + 1, … on one mesh until the
+//! dipole moment's estimated relative error is below a tolerance.
+//!
+//! The estimate comes from the p-sequence itself. Where convergence is exponential the
+//! error e_p = m − m_p falls by a nearly constant ratio ρ per degree, and so do the
+//! differences d_p = m_p − m_{p−1}; then e_p = Σ_{k>p} d_k ≈ |d_p| ρ/(1 − ρ). The ratio is
+//! fitted from the last differences (not assumed): the larger of the last two ratios, doubled
+//! as a margin against convergence that slows down, since a bound is what the user needs.
+//! At least three degrees are solved before an estimate exists, and a ratio of 1 or more
+//! (no convergence yet) gives no estimate.
+
+use super::curved_edges::CurvedEdge;
+use super::model::HpModel;
+use crate::error::SolverError;
+use crate::problem::Problem;
+
+/// Relative round-off floor of the estimate: below it the differences are noise.
+const ROUND_OFF: f64 = 4e-15;
+
+/// One degree of the sequence.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DegreeStep {
+    /// Polynomial degree p (uniform over the mesh).
+    pub degree: u32,
+    /// Global equations after condensation.
+    pub equations: usize,
+    /// Unknowns before condensation.
+    pub unknowns: usize,
+    /// Dipole moment, A·m² (the exterior's dipole coefficient when the problem has the exact
+    /// exterior, else the sources').
+    pub moment: f64,
+    /// The other route's moment (sources), A·m².
+    pub check: f64,
+    /// Estimated relative error of `moment`, once three degrees are solved and they converge.
+    pub estimate: Option<f64>,
+    /// Fitted ratio ρ of successive differences.
+    pub ratio: Option<f64>,
+}
+
+/// The outcome of raising the degree.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DegreeRun {
+    /// Every degree solved, in order.
+    pub steps: Vec<DegreeStep>,
+    /// Whether the last estimate is at most the tolerance.
+    pub reached: bool,
+}
+
+impl DegreeRun {
+    /// The last step (the result).
+    pub fn last(&self) -> &DegreeStep {
+        self.steps.last().expect("at least one degree is solved")
+    }
+}
+
+/// Estimated relative error of the last moment in `moments` (one per degree, in order) and
+/// the fitted ratio, or None while fewer than three degrees are known or they do not converge.
+pub fn estimate(moments: &[f64]) -> Option<(f64, f64)> {
+    let n = moments.len();
+    if n < 3 {
+        return None;
+    }
+    let d: Vec<f64> = moments.windows(2).map(|w| (w[1] - w[0]).abs()).collect();
+    let scale = moments[n - 1].abs().max(f64::MIN_POSITIVE);
+    let floor = ROUND_OFF * scale;
+    let last = d[d.len() - 1];
+    if last <= floor && d[d.len() - 2] <= floor {
+        return Some((ROUND_OFF, 0.0));
+    }
+    let ratio_at = |k: usize| {
+        if d[k - 1] > floor {
+            d[k] / d[k - 1]
+        } else {
+            1.0
+        }
+    };
+    let mut rho = ratio_at(d.len() - 1);
+    if d.len() >= 3 {
+        rho = rho.max(ratio_at(d.len() - 2));
+    }
+    let margin = 2.0 * rho;
+    if margin >= 1.0 {
+        return None;
+    }
+    let err = (last.max(floor) * margin / (1.0 - margin)).max(floor);
+    Some((err / scale, rho))
+}
+
+/// Solves `problem` at degrees p_min … p_max on its mesh (curved edges `curved`) until the
+/// estimated relative error of the moment is at most `tolerance`.
+pub fn raise_degree(
+    problem: &Problem,
+    curved: &[CurvedEdge],
+    tolerance: f64,
+    p_min: u32,
+    p_max: u32,
+) -> Result<DegreeRun, SolverError> {
+    let nt = problem.mesh.triangles.len();
+    let mut steps: Vec<DegreeStep> = Vec::new();
+    let mut moments = Vec::new();
+    for p in p_min..=p_max {
+        let model = HpModel::new(problem.clone(), &vec![p; nt], curved.to_vec())?;
+        let sol = model.solve_linear()?;
+        let check = model.source_moment(&sol)?;
+        let moment = model.exterior_moment(&sol).unwrap_or(check);
+        moments.push(moment);
+        let est = estimate(&moments);
+        steps.push(DegreeStep {
+            degree: p,
+            equations: model.equations(),
+            unknowns: model.unknowns(),
+            moment,
+            check,
+            estimate: est.map(|e| e.0),
+            ratio: est.map(|e| e.1),
+        });
+        if est.is_some_and(|(e, _)| e <= tolerance) {
+            return Ok(DegreeRun {
+                steps,
+                reached: true,
+            });
+        }
+    }
+    Ok(DegreeRun {
+        steps,
+        reached: false,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_geometric_sequence_is_estimated_within_a_factor_of_two_from_above() {
+        // m_p = 1 + 0.3·0.05^p: e_p = 0.3·0.05^p exactly; the doubled ratio bounds it by
+        // 0.1/0.9 against 0.05/0.95, a factor 2.1.
+        let m: Vec<f64> = (2..7).map(|p| 1.0 + 0.3 * 0.05f64.powi(p)).collect();
+        for n in 3..=m.len() {
+            let (est, rho) = estimate(&m[..n]).unwrap();
+            let truth = 0.3 * 0.05f64.powi(n as i32 + 1) / m[n - 1];
+            assert!((rho - 0.05).abs() < 1e-6, "{rho}");
+            assert!(est >= truth && est <= 3.0 * truth, "{est} vs {truth}");
+        }
+    }
+
+    #[test]
+    fn no_estimate_before_three_degrees_or_without_convergence() {
+        assert!(estimate(&[1.0, 1.1]).is_none());
+        // Differences 0.1, 0.08: ratio 0.8, doubled past 1.
+        assert!(estimate(&[1.0, 1.1, 1.18]).is_none());
+    }
+
+    #[test]
+    fn a_sequence_at_round_off_has_the_round_off_estimate() {
+        let (est, _) = estimate(&[2.0, 2.0, 2.0]).unwrap();
+        assert_eq!(est, ROUND_OFF);
+    }
+}
