@@ -18,6 +18,7 @@
 #![warn(missing_docs)]
 
 mod band;
+mod corner_split;
 mod error;
 mod mesh;
 mod pslg;
@@ -27,6 +28,7 @@ mod sizing;
 mod spec;
 mod validate;
 
+pub use corner_split::MAX_SPLIT_LAYERS;
 pub use error::MeshError;
 pub use mesh::{aspect_ratio, signed_area, triangle_angles, Mesh, MeshStats, NodeKind};
 pub use pslg::MIN_INPUT_ANGLE_DEG;

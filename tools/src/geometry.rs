@@ -51,26 +51,15 @@ pub fn core_corners(case: &Case) -> Vec<Point> {
     }
 }
 
-/// Sharp corners of the meridian section where the field is singular, each once, in m: the
-/// core's corners ([`core_corners`]) and every winding corner off the axis (on the axis a
-/// winding's end is a straight cut through the body of revolution, not a corner). Spheres and
-/// spheroids have none.
+/// The points graded toward with `mesh.corner_layers`, each once, in m: the core's corners
+/// ([`core_corners`]), where the field is singular (a permeability jump at a re-entrant corner).
+/// A winding's corners are not among them: there only the current density jumps, the field
+/// stays continuous with bounded gradient, and grading them bought nothing — measured with the
+/// hp model on the torquer rod (8 × 70 mm, μr 5000, winding 4.5–5.5 mm × 60 mm), fineness
+/// 0.125: the same moments to 1e-12 at p = 5…8 with 2.5× fewer equations without them.
+/// Spheres and spheroids have none.
 pub fn singular_points(case: &Case) -> Vec<Point> {
-    let mut points = core_corners(case);
-    for w in &case.windings {
-        let (z0, z1) = (w.centre - 0.5 * w.length, w.centre + 0.5 * w.length);
-        for at in [
-            [w.inner_radius, z0],
-            [w.outer_radius, z0],
-            [w.outer_radius, z1],
-            [w.inner_radius, z1],
-        ] {
-            if at[0] > 0.0 && !points.contains(&at) {
-                points.push(at);
-            }
-        }
-    }
-    points
+    core_corners(case)
 }
 
 /// Size ratio of successive layers toward a singular point with `mesh.corner_layers` > 0
@@ -287,28 +276,22 @@ mod tests {
     const TUBE: &str = "title = \"t\"\n[core]\nshape = \"tube\"\nlength = \"40 mm\"\ndiameter = \"8 mm\"\nbore = \"3 mm\"\nmaterial = \"pure-iron\"\n[[winding]]\nturns = 10\ncurrent = \"1 A\"\ninner_radius = \"4 mm\"\nouter_radius = \"6 mm\"\nlength = \"40 mm\"\n";
 
     #[test]
-    fn singular_points_are_the_core_and_winding_corners_each_once() {
-        // The example rod (r 4 mm, |z| ≤ 35 mm) in a winding 4.2–6 mm, |z| ≤ 30 mm: 2 + 4.
+    fn singular_points_are_the_core_corners_each_once() {
+        // The example rod (r 4 mm, |z| ≤ 35 mm) in a winding 4.2–6 mm, |z| ≤ 30 mm: 2.
         let rod = case(crate::EXAMPLE_CASE);
         let p = singular_points(&rod);
-        assert_eq!(p.len(), 6, "{p:?}");
-        for at in [
-            [4e-3, -35e-3],
-            [4e-3, 35e-3],
-            [4.2e-3, -30e-3],
-            [6e-3, 30e-3],
-        ] {
+        assert_eq!(p.len(), 2, "{p:?}");
+        for at in [[4e-3, -35e-3], [4e-3, 35e-3]] {
             assert!(
                 p.iter()
                     .any(|q| (q[0] - at[0]).abs() < 1e-12 && (q[1] - at[1]).abs() < 1e-12),
                 "{at:?} in {p:?}"
             );
         }
-        // A tube's four corners; the winding's inner corners on its outer corners count once.
-        assert_eq!(singular_points(&case(TUBE)).len(), 6);
-        // A winding from the axis has no corners there; a sphere none at all.
+        // A tube's four corners; an air-core winding and a sphere have none.
+        assert_eq!(singular_points(&case(TUBE)).len(), 4);
         let coil = "title = \"t\"\n[[winding]]\nturns = 10\ncurrent = \"1 A\"\ninner_radius = \"0 mm\"\nouter_radius = \"6 mm\"\nlength = \"40 mm\"\n";
-        assert_eq!(singular_points(&case(coil)).len(), 2);
+        assert!(singular_points(&case(coil)).is_empty());
         let sphere = "title = \"t\"\n[core]\nshape = \"sphere\"\ndiameter = \"10 mm\"\nmaterial = \"pure-iron\"\n[background]\nb_axial = \"1 mT\"\n";
         assert!(singular_points(&case(sphere)).is_empty());
     }
@@ -335,8 +318,8 @@ mod tests {
                 _ => None,
             })
             .collect();
-        assert_eq!(layers.len(), 6);
-        // Core corners end at the core's boundary size, winding corners at the winding's.
+        assert_eq!(layers.len(), 2);
+        // The core corners' zones end at the core's boundary size.
         let core_boundary = a
             .refinements
             .iter()

@@ -134,11 +134,25 @@ pub fn discretise_refined(
             points: refine_at.to_vec(),
         });
     }
+    pose(case, mesh_of(case, &spec)?)
+}
+
+/// The mesh of `spec` (the mesh of `case` or a variant of it), within the case's node cap.
+pub fn mesh_of(
+    case: &Case,
+    spec: &axicore_mesher::MeshSpec,
+) -> Result<axicore_mesher::Mesh, RunError> {
     let limit = case.mesh.max_nodes;
-    let mesh = build_mesh(&spec).map_err(|e| match e {
+    Ok(build_mesh(spec).map_err(|e| match e {
         MeshError::TooManyNodes { reached, .. } => MeshError::TooManyNodes { limit, reached },
         other => other,
-    })?;
+    })?)
+}
+
+/// Poses the field problem of `case` on its `mesh` (regions, second order where the case asks,
+/// Dirichlet data, the exact exterior).
+pub fn pose(case: &Case, mesh: axicore_mesher::Mesh) -> Result<Discretised, RunError> {
+    let limit = case.mesh.max_nodes;
     let mut regions = vec![RegionProps::air(); 2 + case.windings.len()];
     if let Some(core) = &case.core {
         regions[CORE_TAG as usize].material = core.material.clone();

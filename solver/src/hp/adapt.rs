@@ -78,7 +78,7 @@ pub fn estimate(moments: &[f64]) -> Option<(f64, f64)> {
     if d.len() >= 3 {
         rho = rho.max(ratio_at(d.len() - 2));
     }
-    let margin = 2.0 * rho;
+    let margin = 3.0 * rho;
     if margin >= 1.0 {
         return None;
     }
@@ -132,22 +132,22 @@ mod tests {
     use super::*;
 
     #[test]
-    fn a_geometric_sequence_is_estimated_within_a_factor_of_two_from_above() {
-        // m_p = 1 + 0.3·0.05^p: e_p = 0.3·0.05^p exactly; the doubled ratio bounds it by
-        // 0.1/0.9 against 0.05/0.95, a factor 2.1.
+    fn a_geometric_sequence_is_estimated_within_a_factor_of_four_from_above() {
+        // m_p = 1 + 0.3·0.05^p: e_p = 0.3·0.05^p exactly; the tripled ratio bounds it by
+        // 0.15/0.85 against 0.05/0.95, a factor 3.4.
         let m: Vec<f64> = (2..7).map(|p| 1.0 + 0.3 * 0.05f64.powi(p)).collect();
         for n in 3..=m.len() {
             let (est, rho) = estimate(&m[..n]).unwrap();
             let truth = 0.3 * 0.05f64.powi(n as i32 + 1) / m[n - 1];
             assert!((rho - 0.05).abs() < 1e-6, "{rho}");
-            assert!(est >= truth && est <= 3.0 * truth, "{est} vs {truth}");
+            assert!(est >= truth && est <= 4.0 * truth, "{est} vs {truth}");
         }
     }
 
     #[test]
     fn no_estimate_before_three_degrees_or_without_convergence() {
         assert!(estimate(&[1.0, 1.1]).is_none());
-        // Differences 0.1, 0.08: ratio 0.8, doubled past 1.
+        // Differences 0.1, 0.08: ratio 0.8, tripled past 1.
         assert!(estimate(&[1.0, 1.1, 1.18]).is_none());
     }
 

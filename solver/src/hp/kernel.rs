@@ -49,11 +49,16 @@ impl ElementPoints {
             dv.push(2.0 * std::f64::consts::PI * r * da);
             let values = tab.values(q);
             let grads = tab.grads(q);
+            // J⁻ᵀ once per point, not per function.
+            let inv = jac.inverse();
+            let inv_r = 1.0 / r;
             for &i in active {
                 let v = values[i];
-                let [dr, dz] = jac.physical_gradient(grads[i]);
+                let g = grads[i];
+                let dr = inv[0][0] * g[0] + inv[1][0] * g[1];
+                let dz = inv[0][1] * g[0] + inv[1][1] * g[1];
                 phi.push(v);
-                curl.push([-dz, dr + v / r]);
+                curl.push([-dz, dr + v * inv_r]);
             }
         }
         Self {
@@ -108,5 +113,76 @@ impl ElementPoints {
             }
         }
         f
+    }
+}
+
+/// One element's linear system and the integrals its moment needs, computed in one pass over
+/// the quadrature points without storing the basis at them.
+#[derive(Debug, Clone)]
+pub struct ElementSystem {
+    /// K_ab = ∫ ν B(φ_a)·B(φ_b) dV.
+    pub k: DMatrix<f64>,
+    /// f_a = ∫ J φ_a dV + ∫ s B_z(φ_a) dV.
+    pub f: DVector<f64>,
+    /// ∫ B_z(φ_a) dV (the mean field of a solution: ∫ B_z dV = u·this + B0 V).
+    pub bz: DVector<f64>,
+    /// Volume of the element's ring, m³.
+    pub volume: f64,
+    /// ∫ (r/2) dV, m⁴ (times J: the moment of the element's current).
+    pub half_r: f64,
+}
+
+/// The system of the element with map `map`, functions `active` of the tabulation `tab`, a
+/// uniform reluctivity `nu` (m/H), current density `j` (A/m²) and source field `s` (A/m), as
+/// [`ElementPoints::stiffness`] and [`ElementPoints::load`] with `j`, `s` would give it.
+pub fn element_system(
+    map: &ElementMap,
+    tab: &Tabulation,
+    active: &[usize],
+    nu: f64,
+    j: f64,
+    s: f64,
+) -> ElementSystem {
+    let n = active.len();
+    let nq = tab.points();
+    let mut g = DMatrix::zeros(n, 2 * nq);
+    let mut f = DVector::zeros(n);
+    let mut bz = DVector::zeros(n);
+    let (mut volume, mut half_r) = (0.0, 0.0);
+    let affine = map.is_affine().then(|| map.jacobian(0.0, 0.0));
+    for q in 0..nq {
+        let [xi, eta] = tab.point(q);
+        let r = map.position(xi, eta)[0];
+        let jac = affine.unwrap_or_else(|| map.jacobian(xi, eta));
+        let dv = 2.0 * std::f64::consts::PI * r * jac.det().abs() * 0.5 * tab.weight(q);
+        volume += dv;
+        half_r += 0.5 * r * dv;
+        let inv = jac.inverse();
+        let inv_r = 1.0 / r;
+        let w = (nu * dv).sqrt();
+        let values = tab.values(q);
+        let grads = tab.grads(q);
+        let (c0, c1) = (2 * q, 2 * q + 1);
+        for (a, &i) in active.iter().enumerate() {
+            let v = values[i];
+            let gr = grads[i];
+            let dr = inv[0][0] * gr[0] + inv[1][0] * gr[1];
+            let dz = inv[0][1] * gr[0] + inv[1][1] * gr[1];
+            let cz = dr + v * inv_r;
+            g[(a, c0)] = -w * dz;
+            g[(a, c1)] = w * cz;
+            bz[a] += cz * dv;
+            f[a] += j * v * dv;
+        }
+    }
+    if s != 0.0 {
+        f.axpy(s, &bz, 1.0);
+    }
+    ElementSystem {
+        k: &g * g.transpose(),
+        f,
+        bz,
+        volume,
+        half_r,
     }
 }

@@ -15,7 +15,7 @@ use super::condense::Condensed;
 use super::curved_edges::{CurvedEdge, CurvedEdges};
 use super::dofs::HpDofs;
 use super::exterior::{exterior_operator, ArcEdge, HpExterior};
-use super::kernel::ElementPoints;
+use super::kernel::{element_system, ElementPoints};
 use super::map::ElementMap;
 use super::tabulation::Tabulation;
 use crate::cholesky::SymbolicSpd;
@@ -37,6 +37,10 @@ pub const NO_EQUATION: u32 = u32::MAX;
 fn rule_degree(p: usize, curved: bool) -> usize {
     (2 * p + if curved { 6 } else { 2 }).min(MAX_TRIANGLE_DEGREE)
 }
+
+/// An element's condensed system, its moment weights (ν0 − ν)∫B_z(φ_a) dV and its moment
+/// without the reaction field.
+type ElementPart = (Condensed, DVector<f64>, f64);
 
 /// Key of a tabulation: degree, edge orientations, rule degree.
 type TabKey = (usize, [bool; 3], usize);
@@ -66,6 +70,8 @@ pub struct HpSolution {
     pub u: Vec<f64>,
     /// Uniform background B_z, T.
     pub b0: f64,
+    /// The moment of the sources, ∫ (r/2) J dV + ∫ M_z dV, A·m² (linear materials).
+    pub source_moment: f64,
 }
 
 impl HpModel {
@@ -252,16 +258,26 @@ impl HpModel {
         Ok(ElementPoints::new(&self.maps[t], tab, &active))
     }
 
-    /// Condensed element system of element `t` for linear materials.
-    fn condensed(&self, t: usize) -> Result<Condensed, SolverError> {
-        let pts = self.element_points(t)?;
+    /// Condensed element system of element `t` for linear materials, with the integrals of
+    /// its moment: (condensed system, ∫ B_z(φ_a) dV, its moment part that does not depend on
+    /// the solution).
+    fn condensed(&self, t: usize) -> Result<ElementPart, SolverError> {
+        let ed = self.dofs.element(t);
+        let p = ed.degree as usize;
+        let (_, active) = self.active(t)?;
+        let tab = &self.tabs[&(p, ed.reversed, rule_degree(p, self.curved[t]))];
         let props = self.element_props(t);
         let nu = props.material.nu(0.0);
-        let k = pts.stiffness(|_| nu);
-        let s = nu * props.polarization - (nu - 1.0 / MU0) * self.background;
-        let f = pts.load(props.current_density, s);
-        let cells = self.dofs.element(t).cell_range().len();
-        Condensed::new(&k, &f, cells, t)
+        let nu0 = 1.0 / MU0;
+        let s = nu * props.polarization - (nu - nu0) * self.background;
+        let sys = element_system(&self.maps[t], tab, &active, nu, props.current_density, s);
+        let cells = ed.cell_range().len();
+        // m_e = ∫ (r/2) J dV + ∫ M_z dV with M_z = (ν0 − ν)(B_z,reaction + B0) + ν J0: the part
+        // without the reaction field.
+        let fixed_moment = props.current_density * sys.half_r
+            + ((nu0 - nu) * self.background + nu * props.polarization) * sys.volume;
+        let bz = sys.bz.clone() * (nu0 - nu);
+        Ok((Condensed::new(&sys.k, &sys.f, cells, t)?, bz, fixed_moment))
     }
 
     /// Solves the linear problem (every material linear): assembles the condensed system,
@@ -274,28 +290,43 @@ impl HpModel {
             )));
         }
         let nt = self.mesh.triangles.len();
-        let local: Vec<Condensed> = (0..nt)
+        // Element systems, condensed, with the pattern slots of their lower-triangle entries
+        // (looked up in parallel; the sums below run in element order, so the result does not
+        // depend on the number of threads).
+        let local: Vec<(ElementPart, Vec<u32>, Vec<u32>)> = (0..nt)
             .into_par_iter()
-            .map(|t| self.condensed(t))
-            .collect::<Result<_, _>>()?;
+            .map(|t| {
+                let c = self.condensed(t)?;
+                let eqs = self.outer_equations(t);
+                let mut slots = Vec::with_capacity(eqs.len() * (eqs.len() + 1) / 2);
+                for &i in &eqs {
+                    for &j in &eqs {
+                        slots.push(if i == NO_EQUATION || j == NO_EQUATION || j > i {
+                            NO_EQUATION
+                        } else {
+                            self.pattern
+                                .slot(i as usize, j as usize)
+                                .expect("in pattern")
+                        });
+                    }
+                }
+                Ok((c, eqs, slots))
+            })
+            .collect::<Result<_, SolverError>>()?;
         let mut values = vec![0.0; self.pattern.nnz()];
         let mut rhs = vec![0.0; self.n_eq];
-        for (t, c) in local.iter().enumerate() {
-            let eqs = self.outer_equations(t);
+        for ((c, _, _), eqs, slots) in &local {
+            let n = eqs.len();
             for (a, &i) in eqs.iter().enumerate() {
                 if i == NO_EQUATION {
                     continue;
                 }
                 rhs[i as usize] += c.g[a];
-                for (b, &j) in eqs.iter().enumerate() {
-                    if j == NO_EQUATION || j > i {
-                        continue;
+                for b in 0..n {
+                    let s = slots[a * n + b];
+                    if s != NO_EQUATION {
+                        values[s as usize] += c.s[(a, b)];
                     }
-                    let s = self
-                        .pattern
-                        .slot(i as usize, j as usize)
-                        .expect("in pattern");
-                    values[s as usize] += c.s[(a, b)];
                 }
             }
         }
@@ -318,7 +349,8 @@ impl HpModel {
                 u[d] = rhs[i as usize];
             }
         }
-        for (t, c) in local.iter().enumerate() {
+        let mut moment = 0.0;
+        for (t, ((c, bz, fixed_moment), _, _)) in local.iter().enumerate() {
             let l2g = self.dofs.local_to_global(t);
             let cells = self.dofs.element(t).cell_range();
             let outer = DVector::from_iterator(
@@ -329,10 +361,17 @@ impl HpModel {
             for (k, pos) in cells.enumerate() {
                 u[l2g[pos] as usize] = uc[k];
             }
+            moment += fixed_moment
+                + l2g
+                    .iter()
+                    .zip(bz.iter())
+                    .map(|(&d, b)| u[d as usize] * b)
+                    .sum::<f64>();
         }
         Ok(HpSolution {
             u,
             b0: self.background,
+            source_moment: moment,
         })
     }
 
@@ -371,28 +410,10 @@ impl HpModel {
     }
 
     /// The dipole moment from the sources, A·m²: ∫ (r/2) J dV + ∫ M_z dV with
-    /// M = B/μ0 − H = (ν0 − ν) B + ν J0 e_z (linear materials).
+    /// M = B/μ0 − H = (ν0 − ν) B + ν J0 e_z (linear materials), summed during the solve from
+    /// each element's ∫ B_z(φ_a) dV.
     pub fn source_moment(&self, sol: &HpSolution) -> Result<f64, SolverError> {
-        let parts: Vec<f64> = (0..self.mesh.triangles.len())
-            .into_par_iter()
-            .map(|t| {
-                let pts = self.element_points(t)?;
-                let props = self.element_props(t);
-                let nu = props.material.nu(0.0);
-                let u = self.element_values(sol, t);
-                let mut m = 0.0;
-                for q in 0..pts.points() {
-                    let bz: f64 = (0..pts.n)
-                        .map(|a| u[a] * pts.curl[q * pts.n + a][1])
-                        .sum::<f64>()
-                        + sol.b0;
-                    let mz = (1.0 / MU0 - nu) * bz + nu * props.polarization;
-                    m += (0.5 * pts.x[q][0] * props.current_density + mz) * pts.dv[q];
-                }
-                Ok(m)
-            })
-            .collect::<Result<_, SolverError>>()?;
-        Ok(parts.iter().sum())
+        Ok(sol.source_moment)
     }
 }
 

@@ -10,21 +10,9 @@ use clap::Args;
 use super::args::{case_name, load, with_threads};
 use super::failure::{run_failure, EXIT_OK, EXIT_TOLERANCE_MISSED};
 use super::{emit, Failure};
-use crate::hp_geometry::discretise_hp;
+use crate::hp_geometry::{discretise_hp, first_degree, layers_for, P_MIN, SPLIT_FACTOR};
 use axicore_solver::hp::adapt::{raise_degree, DegreeRun};
 
-/// Lowest degree solved.
-const P_MIN: u32 = 2;
-
-/// The first degree to solve for a tolerance: two below the degree expected to meet it, so
-/// that the estimate (which needs three degrees) exists there. Measured on the torquer rod
-/// with the grading of [`layers_for`]: 1e-3 is met at p = 4, 1e-6 at 5, 1e-8 at 6; the
-/// relation p = 2 + ⌈−log10(tol)/2⌉ matches. A case that converges more slowly simply goes on
-/// raising the degree; one that converges faster wastes one degree at most.
-pub fn first_degree(tolerance: f64) -> u32 {
-    let expected = 2 + ((-tolerance.log10()) / 2.0).ceil().max(0.0) as u32;
-    expected.saturating_sub(2).max(P_MIN)
-}
 /// Highest degree offered: beyond it the round-off of the moment, not the discretisation,
 /// limits (measured on the torquer rod: p = 8 at 5e-13).
 pub const P_MAX: u32 = 10;
@@ -46,13 +34,6 @@ pub struct MomentArgs {
     /// Worker threads for element loops (default: all cores).
     #[arg(long)]
     threads: Option<usize>,
-}
-
-/// Layers of geometric corner grading for a tolerance when the case sets none: the error a
-/// corner leaves falls about tenfold per layer at the factor 0.2 (measured on the torquer rod,
-/// 8 × 70 mm, μr 5000: p = 8 reaches 7e-11 with 6 layers and below 1e-12 with 10).
-pub fn layers_for(tolerance: f64) -> u32 {
-    ((-tolerance.log10()).ceil() as i64 + 1).clamp(3, 12) as u32
 }
 
 /// Runs `axicore moment`.
@@ -111,7 +92,7 @@ pub fn moment(a: MomentArgs, _quiet: bool) -> Result<u8, Failure> {
 fn summary(name: &str, run: &DegreeRun, tolerance: f64, layers: u32, seconds: f64) -> String {
     let mut s = format!(
         "axicore moment — {name}\nhierarchical elements of rising degree on exact curves, \
-         corner grading {layers} layers (factor 0.2)\n\n  p   equations   moment (A·m²)        \
+         corner grading {layers} layers (factor {SPLIT_FACTOR})\n\n  p   equations   moment (A·m²)        \
          estimate\n"
     );
     for st in &run.steps {
