@@ -14,7 +14,8 @@ const R_OUT: f64 = 1.0;
 /// circle ρ = 0.5 (tag 1) and a ring of 2n triangles outside it (tag 0); both circles are
 /// exact curved edges (the inner one declared on both of its sides). Axis and outer arc fixed.
 fn half_disc(n: usize, inner: RegionProps, b0: f64) -> (Problem, Vec<CurvedEdge>) {
-    let angle = |i: usize| -std::f64::consts::FRAC_PI_2 + std::f64::consts::PI * i as f64 / n as f64;
+    let angle =
+        |i: usize| -std::f64::consts::FRAC_PI_2 + std::f64::consts::PI * i as f64 / n as f64;
     let mut nodes = vec![[0.0, 0.0]];
     for rho in [A_IN, R_OUT] {
         for i in 0..=n {
@@ -120,7 +121,10 @@ fn located_element_maps_its_reference_point_onto_the_point() {
     for p in sample_points() {
         let l = m.locate(&loc, p).unwrap_or_else(|e| panic!("{p:?}: {e}"));
         let [xi, eta] = l.xi;
-        assert!(xi >= -1e-10 && eta >= -1e-10 && xi + eta <= 1.0 + 1e-10, "{p:?}: {l:?}");
+        assert!(
+            xi >= -1e-10 && eta >= -1e-10 && xi + eta <= 1.0 + 1e-10,
+            "{p:?}: {l:?}"
+        );
         let x = m.maps[l.element].position(xi, eta);
         assert!((x[0] - p[0]).hypot(x[1] - p[1]) < 1e-13, "{p:?} vs {x:?}");
         // Inside the circle ρ = 0.5 the element is the inner region's (the curved interface
@@ -237,11 +241,23 @@ fn magnetized_sphere_inside_a_flux_tight_shell_has_its_uniform_interior_field() 
     let m = model(8, 8, magnet, 0.0);
     let sol = m.solve_linear().unwrap();
     let mean = m.region_mean(&sol, 1).unwrap().unwrap();
-    assert!(((mean.b_z - b_in) / b_in).abs() < 3e-9, "{mean:?} vs {b_in}");
-    assert!(((mean.h_z - h_in) / h_in).abs() < 4e-9, "{mean:?} vs {h_in}");
+    assert!(
+        ((mean.b_z - b_in) / b_in).abs() < 3e-9,
+        "{mean:?} vs {b_in}"
+    );
+    assert!(
+        ((mean.h_z - h_in) / h_in).abs() < 4e-9,
+        "{mean:?} vs {h_in}"
+    );
     let loc = m.locator();
     let mut worst = 0.0f64;
-    for p in [[0.0, 0.0], [0.0, 0.3], [0.0, -0.45], [0.2, 0.1], [0.35, -0.3]] {
+    for p in [
+        [0.0, 0.0],
+        [0.0, 0.3],
+        [0.0, -0.45],
+        [0.2, 0.1],
+        [0.35, -0.3],
+    ] {
         let v = m.value_at(&sol, &loc, p).unwrap();
         worst = worst
             .max(((v.b[1] - b_in) / b_in).abs())

@@ -60,10 +60,7 @@ fn element_box(mesh: &FeMesh, map: &ElementMap, t: usize) -> [[f64; 2]; 2] {
             let (a, e) = (refs[k], refs[(k + 1) % 3]);
             for i in 1..EDGE_SAMPLES {
                 let s = i as f64 / EDGE_SAMPLES as f64;
-                add(map.position(
-                    a[0] + s * (e[0] - a[0]),
-                    a[1] + s * (e[1] - a[1]),
-                ));
+                add(map.position(a[0] + s * (e[0] - a[0]), a[1] + s * (e[1] - a[1])));
             }
         }
         let w = 0.1 * (b[0][1] - b[0][0]).max(b[1][1] - b[1][0]);
