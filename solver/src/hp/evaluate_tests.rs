@@ -184,6 +184,7 @@ fn point_values_agree_with_the_quadrature_tables_for_any_coefficients() {
     let m = model(4, 5, RegionProps::air(), 0.0);
     let mut g = Lcg(7);
     let sol = HpSolution {
+        source_moment: 0.0,
         u: (0..m.dofs.n_dofs()).map(|_| g.next() - 0.5).collect(),
         b0: 0.0,
     };
