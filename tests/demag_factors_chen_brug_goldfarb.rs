@@ -10,9 +10,10 @@
 //!   χ for γ ≥ 2; both tend to the χ = 0 values as χ → 0.
 //! * Every point's true error within 3× its estimate where a closed form exists.
 
-use axicore::study::demag::{DemagStudy, Family};
+use axicore::study::demag::{DemagStudy, Elements, Family};
 use axicore_formulas as reference;
 
+/// The study as `axicore demag` runs it by default (hierarchical elements).
 fn study(family: Family, tolerance: f64) -> DemagStudy {
     DemagStudy {
         family,
@@ -20,14 +21,17 @@ fn study(family: Family, tolerance: f64) -> DemagStudy {
         threshold: 0.05,
         fineness: 1.0,
         max_nodes: 2_000_000,
+        elements: Elements::Hierarchical,
     }
 }
 
 #[test]
 fn uniformly_magnetized_rods_match_the_closed_form_factors() {
-    // references.md §1 closed forms; the issue asks 1e-4 relative (Nf 1e-3 where below 1e-3).
+    // references.md §1 closed forms; the issue asks 1e-4 relative (Nf 1e-3 where below 1e-3)
+    // at γ = 0.5 … 100. γ = 50 and 100 are the slender rods whose Nf (5e-5 at γ = 100, a
+    // small difference of nearly equal fields) the second-order elements missed by per cents.
     let s = study(Family::Cylinder, 3e-5);
-    for gamma in [0.5, 1.0, 2.0, 5.0, 10.0, 20.0] {
+    for gamma in [0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0] {
         let p = s.solve_point(gamma, 0.0, 0.0).unwrap();
         let f = p.factors;
         let (nm, nf) = (reference::rod_nm_chi0(gamma), reference::rod_nf_chi0(gamma));
@@ -45,7 +49,8 @@ fn uniformly_magnetized_rods_match_the_closed_form_factors() {
             f.nf,
             ef / nf
         );
-        // The estimate bounds the true error within a factor 3.
+        // The estimate bounds the true error (the issue allows a factor 3; the degree
+        // sequence's estimate is an upper bound).
         assert!(
             em <= 3.0 * f.nm_error.unwrap(),
             "γ {gamma}: Nm error {em:.1e} vs estimate {:?}",

@@ -15,7 +15,7 @@ use crate::demag::table::{read_study, StudyRow};
 use crate::output;
 use crate::pipeline::{run, RunOptions};
 use crate::progress::Progress;
-use crate::study::demag::{self as study, DemagStudy, Family};
+use crate::study::demag::{self as study, DemagStudy, Elements, Family};
 use crate::study::grid::{self, Axis};
 use crate::study::sweep::Sweep;
 use crate::study::sweep_file::partial_path;
@@ -47,7 +47,11 @@ pub struct DemagArgs {
     /// Flag formulas whose factor is off by more than this (relative, beyond the error bar).
     #[arg(long, value_name = "REL", default_value_t = 0.05)]
     threshold: f64,
-    /// Mesh fineness of each point's first level.
+    /// Elements: "hp" (hierarchical, degree raised to the tolerance; default) or
+    /// "second-order" (refined in h from --fineness, up to --max-nodes).
+    #[arg(long, value_name = "KIND", default_value = "hp")]
+    elements: String,
+    /// Mesh fineness of each point's first level (second-order elements).
     #[arg(long, value_name = "F", default_value_t = 1.0)]
     fineness: f64,
     /// Node cap per point: a point that would need more stops there with its error bar and
@@ -60,7 +64,7 @@ pub struct DemagArgs {
     #[arg(long, value_name = "FILE")]
     out: Option<PathBuf>,
     /// Render a finished study file (from `--out` or `axicore merge`) instead of solving.
-    #[arg(long, value_name = "FILE", conflicts_with_all = ["case", "out", "shard", "gamma", "chi", "bore", "spheroids", "tolerance", "fineness", "max_nodes", "jobs"])]
+    #[arg(long, value_name = "FILE", conflicts_with_all = ["case", "out", "shard", "gamma", "chi", "bore", "spheroids", "tolerance", "fineness", "elements", "max_nodes", "jobs"])]
     from: Option<PathBuf>,
     /// JSON table of the finished study.
     #[arg(long, value_name = "FILE")]
@@ -168,6 +172,15 @@ pub fn demag(a: DemagArgs, quiet: bool) -> Result<u8, Failure> {
         threshold: a.threshold,
         fineness: a.fineness,
         max_nodes: a.max_nodes,
+        elements: match a.elements.as_str() {
+            "hp" => Elements::Hierarchical,
+            "second-order" => Elements::SecondOrder,
+            other => {
+                return Err(Failure::input(format!(
+                    "--elements: '{other}' must be hp or second-order"
+                )))
+            }
+        },
     };
     if let Some(from) = &a.from {
         let text = crate::case::read_case_text(from).map_err(|e| Failure::input(e.to_string()))?;

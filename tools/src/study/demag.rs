@@ -54,6 +54,17 @@ pub struct DemagStudy {
     pub fineness: f64,
     /// Node cap per solve.
     pub max_nodes: usize,
+    /// The elements each point is solved with.
+    pub elements: Elements,
+}
+
+/// The elements a study solves its points with.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Elements {
+    /// Hierarchical elements of rising degree on exact geometry (see `demag_hp`).
+    Hierarchical,
+    /// Second-order elements refined in h (`fineness`, `max_nodes` apply).
+    SecondOrder,
 }
 
 /// One solved point.
@@ -159,6 +170,9 @@ pub fn check_value(family: Family, key: &str, x: f64) -> Result<(), String> {
 impl DemagStudy {
     /// Solves one point of the grid.
     pub fn solve_point(&self, gamma: f64, chi: f64, beta: f64) -> Result<PointResult, String> {
+        if self.elements == Elements::Hierarchical {
+            return self.solve_point_hp(gamma, chi, beta);
+        }
         check_value(self.family, GAMMA, gamma).map_err(|e| format!("gamma: {e}"))?;
         check_value(self.family, CHI, chi).map_err(|e| format!("chi: {e}"))?;
         check_value(self.family, BETA, beta).map_err(|e| format!("bore_ratio: {e}"))?;
@@ -251,10 +265,16 @@ fn num(x: f64) -> String {
 
 impl PointStudy for DemagStudy {
     fn definition(&self) -> String {
-        format!(
-            "demag family={:?} tolerance={:e} threshold={:e} fineness={:e} max_nodes={}",
-            self.family, self.tolerance, self.threshold, self.fineness, self.max_nodes
-        )
+        match self.elements {
+            Elements::SecondOrder => format!(
+                "demag family={:?} tolerance={:e} threshold={:e} fineness={:e} max_nodes={}",
+                self.family, self.tolerance, self.threshold, self.fineness, self.max_nodes
+            ),
+            Elements::Hierarchical => format!(
+                "demag family={:?} tolerance={:e} threshold={:e} elements=hp max_nodes={}",
+                self.family, self.tolerance, self.threshold, self.max_nodes
+            ),
+        }
     }
 
     fn columns(&self) -> String {

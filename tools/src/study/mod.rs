@@ -2,6 +2,7 @@
 //! function of its modified case, so points can run in any order, on any thread or machine.
 
 pub mod demag;
+pub mod demag_hp;
 pub mod grid;
 pub mod sweep;
 pub mod sweep_file;
