@@ -1,5 +1,6 @@
 //! File output of solved fields.
 
+pub mod hp_map;
 pub mod region_points;
 pub mod vtk;
 pub mod vtu;

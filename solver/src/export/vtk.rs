@@ -215,10 +215,11 @@ fn region_array(mesh: &FeMesh) -> DataArray {
     DataArray::integers("region", mesh.tags.iter().map(|&t| t as i32).collect())
 }
 
-/// Title, coordinates, region ids and names, array units and notes.
-fn standard_field_data(mesh: &FeMesh, labels: &MapLabels, with_field: bool) -> Vec<DataArray> {
+/// Region names by id for every tag of `mesh` and every name of `labels` (missing ones as
+/// "region N").
+pub(crate) fn region_names(mesh: &FeMesh, labels: &MapLabels) -> Vec<String> {
     let n = mesh.tag_count().max(labels.region_names.len());
-    let names = (0..n)
+    (0..n)
         .map(|t| {
             labels
                 .region_names
@@ -226,7 +227,13 @@ fn standard_field_data(mesh: &FeMesh, labels: &MapLabels, with_field: bool) -> V
                 .cloned()
                 .unwrap_or_else(|| format!("region {t}"))
         })
-        .collect();
+        .collect()
+}
+
+/// Title, coordinates, region ids and names, array units and notes.
+fn standard_field_data(mesh: &FeMesh, labels: &MapLabels, with_field: bool) -> Vec<DataArray> {
+    let names = region_names(mesh, labels);
+    let n = names.len();
     let mut units = Vec::new();
     if with_field {
         for (name, unit, meaning) in POINT_ARRAYS {

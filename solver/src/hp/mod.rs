@@ -17,6 +17,7 @@ pub mod kernel;
 pub mod locate;
 pub mod map;
 pub mod model;
+pub mod sample;
 pub mod tabulation;
 
 pub use basis::{Mode, TriangleBasis, P_MAX};

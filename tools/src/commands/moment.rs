@@ -7,11 +7,15 @@ use std::time::Instant;
 
 use clap::Args;
 
-use super::args::{case_name, load, with_threads};
+use super::args::{self, case_name, load, with_threads};
 use super::failure::{run_failure, EXIT_OK, EXIT_TOLERANCE_MISSED};
 use super::{emit, Failure};
 use crate::hp_geometry::{discretise_hp, first_degree, layers_for, P_MIN, SPLIT_FACTOR};
+use crate::output;
+use axicore_solver::export::hp_map::hp_field_map;
 use axicore_solver::hp::adapt::{raise_degree, DegreeRun};
+use axicore_solver::hp::sample::MIN_DIVISIONS;
+use axicore_solver::hp::HpModel;
 
 /// Highest degree offered: beyond it the round-off of the moment, not the discretisation,
 /// limits (measured on the torquer rod: p = 8 at 5e-13).
@@ -31,6 +35,10 @@ pub struct MomentArgs {
     /// Print the result as JSON.
     #[arg(long)]
     json: bool,
+    /// Write the field at the final degree to this VTK XML file (.vtu), sampled on linear
+    /// sub-triangles (k × k per element, k ≥ the degree).
+    #[arg(long, value_name = "FILE")]
+    vtk: Option<PathBuf>,
     /// Worker threads for element loops (default: all cores).
     #[arg(long)]
     threads: Option<usize>,
@@ -51,6 +59,9 @@ pub fn moment(a: MomentArgs, _quiet: bool) -> Result<u8, Failure> {
             P_MIN + 2
         )));
     }
+    if let Some(v) = &a.vtk {
+        args::check_outputs(&[("--vtk", v)], a.case.as_deref())?;
+    }
     let name = case_name(a.case.as_deref());
     let mut case = load(a.case.as_deref())?;
     let nonlinear = case.core.as_ref().is_some_and(|c| !c.material.is_linear());
@@ -64,18 +75,36 @@ pub fn moment(a: MomentArgs, _quiet: bool) -> Result<u8, Failure> {
         case.mesh.corner_layers = layers_for(a.tolerance);
     }
     let start = Instant::now();
-    let run = with_threads(a.threads, || -> Result<DegreeRun, Failure> {
+    let want_map = a.vtk.is_some();
+    let (run, map, seconds) = with_threads(a.threads, || -> Result<_, Failure> {
         let (problem, curved) = discretise_hp(&case).map_err(|e| run_failure(e, &case, &name))?;
-        raise_degree(
+        let fault = |e: axicore_solver::SolverError| Failure::other(format!("{name}: {e}"));
+        let run = raise_degree(
             &problem,
             &curved,
             a.tolerance,
             first_degree(a.tolerance).min(a.max_degree - 2),
             a.max_degree,
         )
-        .map_err(|e| Failure::other(format!("{name}: {e}")))
+        .map_err(fault)?;
+        let seconds = start.elapsed().as_secs_f64();
+        // The degree sequence keeps no model; the final degree is solved once more for the map
+        // (the same deterministic solve, so the same field).
+        let map = if want_map {
+            let p = run.last().degree;
+            let nt = problem.mesh.triangles.len();
+            let model = HpModel::new(problem, &vec![p; nt], curved).map_err(fault)?;
+            let sol = model.solve_linear().map_err(fault)?;
+            let labels = crate::vtk_map::labels(&case);
+            Some(hp_field_map(&model, &sol, MIN_DIVISIONS, &labels).map_err(fault)?)
+        } else {
+            None
+        };
+        Ok((run, map, seconds))
     })??;
-    let seconds = start.elapsed().as_secs_f64();
+    if let (Some(path), Some(bytes)) = (a.vtk, map) {
+        output::write_all(&[(path, bytes)]).map_err(Failure::other)?;
+    }
     let text = if a.json {
         json(&name, &run, a.tolerance, case.mesh.corner_layers, seconds)
     } else {
