@@ -16,6 +16,7 @@ pub mod exterior;
 pub mod kernel;
 pub mod locate;
 pub mod map;
+pub mod nonlinear_terms;
 pub mod model;
 pub mod tabulation;
 
