@@ -16,8 +16,10 @@ pub mod exterior;
 pub mod kernel;
 pub mod locate;
 pub mod map;
-pub mod nonlinear_terms;
 pub mod model;
+pub mod nonlinear;
+pub mod nonlinear_terms;
+pub mod prolong;
 pub mod tabulation;
 
 pub use basis::{Mode, TriangleBasis, P_MAX};

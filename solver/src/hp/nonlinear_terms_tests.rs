@@ -84,8 +84,7 @@ fn the_tangent_is_the_derivative_of_the_residual_at_every_degree() {
                 up[b] += h;
                 down[b] -= h;
                 let rp = residual_and_tangent(&map, &tab, &active, &up, &drive, Tangent::None).0;
-                let rm =
-                    residual_and_tangent(&map, &tab, &active, &down, &drive, Tangent::None).0;
+                let rm = residual_and_tangent(&map, &tab, &active, &down, &drive, Tangent::None).0;
                 for a in 0..active.len() {
                     let fd = (rp[a] - rm[a]) / (2.0 * h);
                     worst = worst.max((fd - k[(a, b)]).abs() / scale);
@@ -121,9 +120,15 @@ fn a_linear_material_gives_the_linear_kernel_residual() {
             let (r, k) = residual_and_tangent(&map, &tab, &active, &u, &drive, Tangent::Newton);
             let k = k.unwrap();
             let want = &lin.k * DVector::from_vec(u.clone()) - &lin.f;
-            let scale = lin.f.amax().max((&lin.k * DVector::from_vec(u.clone())).amax());
+            let scale = lin
+                .f
+                .amax()
+                .max((&lin.k * DVector::from_vec(u.clone())).amax());
             assert!((&r - &want).amax() <= 1e-12 * scale, "p = {p}: residual");
-            assert!((&k - &lin.k).amax() <= 1e-12 * lin.k.amax(), "p = {p}: matrix");
+            assert!(
+                (&k - &lin.k).amax() <= 1e-12 * lin.k.amax(),
+                "p = {p}: matrix"
+            );
         }
     }
 }
