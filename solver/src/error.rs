@@ -44,6 +44,10 @@ pub enum SolverError {
     /// Nothing is free to solve for.
     #[error("every node is fixed: nothing to solve")]
     NoUnknowns,
+    /// A start for p-continuation that does not fit the model (another mesh, or a solution
+    /// of another model).
+    #[error("p-continuation: {0}")]
+    BadStart(String),
     /// The system matrix was not positive definite (should not happen for valid input).
     #[error("the system matrix is not positive definite ({0})")]
     NotPositiveDefinite(String),

@@ -10,10 +10,16 @@
 //! solved before an estimate exists, and a tripled ratio of 1 or more (no convergence yet)
 //! gives none — unless the differences have flattened far below the tolerance (see
 //! [`estimate_for`]).
+//!
+//! Saturating materials go through Newton's method with p-continuation: the first degree
+//! starts from the linear field at initial permeability, each next one from the field of the
+//! degree below (hierarchical basis: its coefficients carry over, see [`super::prolong`]);
+//! the Newton iterations of every degree are reported.
 
 use super::curved_edges::CurvedEdge;
-use super::model::HpModel;
+use super::model::{HpModel, HpSolution};
 use crate::error::SolverError;
+use crate::nonlinear::NewtonSettings;
 use crate::problem::Problem;
 
 /// Relative round-off floor of the estimate: below it the differences are noise.
@@ -37,6 +43,8 @@ pub struct DegreeStep {
     pub estimate: Option<f64>,
     /// Fitted ratio ρ of successive differences.
     pub ratio: Option<f64>,
+    /// Newton iterations of this degree (0 when every material is linear).
+    pub newton_iterations: usize,
 }
 
 /// The outcome of raising the degree.
@@ -118,7 +126,8 @@ pub fn estimate_for(values: &[f64], tolerance: f64) -> Option<(f64, f64)> {
 }
 
 /// Solves `problem` at degrees p_min … p_max on its mesh (curved edges `curved`) until the
-/// estimated relative error of the moment is at most `tolerance`.
+/// estimated relative error of the moment is at most `tolerance`; saturating materials with
+/// Newton's default settings.
 pub fn raise_degree(
     problem: &Problem,
     curved: &[CurvedEdge],
@@ -126,12 +135,41 @@ pub fn raise_degree(
     p_min: u32,
     p_max: u32,
 ) -> Result<DegreeRun, SolverError> {
+    raise_degree_with(
+        problem,
+        curved,
+        tolerance,
+        p_min,
+        p_max,
+        &NewtonSettings::default(),
+    )
+}
+
+/// As [`raise_degree`], with Newton's `settings` for saturating materials (p-continuation:
+/// each degree starts from the one below). A degree whose Newton iteration does not converge
+/// ends the run with [`SolverError::NotConverged`].
+pub fn raise_degree_with(
+    problem: &Problem,
+    curved: &[CurvedEdge],
+    tolerance: f64,
+    p_min: u32,
+    p_max: u32,
+    settings: &NewtonSettings,
+) -> Result<DegreeRun, SolverError> {
     let nt = problem.mesh.triangles.len();
+    let linear = problem.regions.iter().all(|r| r.material.is_linear());
     let mut steps: Vec<DegreeStep> = Vec::new();
     let mut moments = Vec::new();
+    let mut previous: Option<(HpModel, HpSolution)> = None;
     for p in p_min..=p_max {
         let model = HpModel::new(problem.clone(), &vec![p; nt], curved.to_vec())?;
-        let sol = model.solve_linear()?;
+        let (sol, newton_iterations) = if linear {
+            (model.solve_linear()?, 0)
+        } else {
+            let start = previous.as_ref().map(|(m, s)| (m, s));
+            let (sol, report) = model.solve_nonlinear(settings, start)?;
+            (sol, report.iterations)
+        };
         let check = model.source_moment(&sol)?;
         let moment = model.exterior_moment(&sol).unwrap_or(check);
         moments.push(moment);
@@ -144,12 +182,16 @@ pub fn raise_degree(
             check,
             estimate: est.map(|e| e.0),
             ratio: est.map(|e| e.1),
+            newton_iterations,
         });
         if est.is_some_and(|(e, _)| e <= tolerance) {
             return Ok(DegreeRun {
                 steps,
                 reached: true,
             });
+        }
+        if !linear {
+            previous = Some((model, sol));
         }
     }
     Ok(DegreeRun {

@@ -17,6 +17,9 @@ pub mod kernel;
 pub mod locate;
 pub mod map;
 pub mod model;
+pub mod nonlinear;
+pub mod nonlinear_terms;
+pub mod prolong;
 pub mod sample;
 pub mod tabulation;
 

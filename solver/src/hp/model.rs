@@ -34,7 +34,7 @@ pub const NO_EQUATION: u32 = u32::MAX;
 /// the rule goes above it. Measured on the sphere and the spheroid of
 /// `tests/hp_exponential_convergence.rs` at p = 2…6: rules ten degrees higher change the
 /// moment by less than 2e-14 relative.
-fn rule_degree(p: usize, curved: bool) -> usize {
+pub(super) fn rule_degree(p: usize, curved: bool) -> usize {
     (2 * p + if curved { 6 } else { 2 }).min(MAX_TRIANGLE_DEGREE)
 }
 
@@ -285,10 +285,17 @@ impl HpModel {
     pub fn solve_linear(&self) -> Result<HpSolution, SolverError> {
         if let Some(r) = self.regions.iter().find(|r| !r.material.is_linear()) {
             return Err(SolverError::BadMaterial(format!(
-                "the hp model solves linear materials only so far ({:?})",
+                "solve_linear takes linear materials only; saturating ones go through \
+                 solve_nonlinear ({:?})",
                 r.material
             )));
         }
+        self.solve_initial_permeability()
+    }
+
+    /// The linear solve with every material at its initial reluctivity ν(0): the solution
+    /// for linear materials, the first guess of Newton's method for saturating ones.
+    pub(super) fn solve_initial_permeability(&self) -> Result<HpSolution, SolverError> {
         let nt = self.mesh.triangles.len();
         // Element systems, condensed, with the pattern slots of their lower-triangle entries
         // (looked up in parallel; the sums below run in element order, so the result does not
@@ -376,7 +383,7 @@ impl HpModel {
     }
 
     /// Equation numbers of element `t`'s outer (vertex and edge) functions, in local order.
-    fn outer_equations(&self, t: usize) -> Vec<u32> {
+    pub(super) fn outer_equations(&self, t: usize) -> Vec<u32> {
         let l2g = self.dofs.local_to_global(t);
         let no = self.dofs.element(t).cell_range().start;
         l2g[..no].iter().map(|&d| self.eq[d as usize]).collect()

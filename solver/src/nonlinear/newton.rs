@@ -53,14 +53,17 @@ impl Factor for crate::cholesky::SpdFactor<'_> {
 pub trait NonlinearSystem {
     /// The factorised matrix type.
     type Factor: Factor;
+    /// The assembled (not yet factorised) matrix: sparse values for a plain system; the hp
+    /// system adds its elements' cell blocks (static condensation, `hp/nonlinear.rs`).
+    type Matrix;
     /// The state at which the system is undriven (its residual there scales the tolerances).
     fn reference_state(&self) -> Vec<f64>;
     /// The residual R(a) over the free unknowns.
     fn residual(&self, a: &[f64]) -> Vec<f64>;
-    /// The residual and the matrix values of `direction` at `a`.
-    fn residual_and_matrix(&self, a: &[f64], direction: Direction) -> (Vec<f64>, Vec<f64>);
-    /// Factorises matrix values from [`Self::residual_and_matrix`].
-    fn factorize(&self, values: &[f64]) -> Result<Self::Factor, SolverError>;
+    /// The residual and the matrix of `direction` at `a`.
+    fn residual_and_matrix(&self, a: &[f64], direction: Direction) -> (Vec<f64>, Self::Matrix);
+    /// Factorises a matrix from [`Self::residual_and_matrix`].
+    fn factorize(&self, matrix: &Self::Matrix) -> Result<Self::Factor, SolverError>;
     /// a ← a + α δ on the free unknowns.
     fn step(&self, a: &mut [f64], delta: &[f64], alpha: f64);
     /// The Euclidean norm of the state over the free unknowns.
@@ -158,7 +161,7 @@ pub fn iterate<S: NonlinearSystem>(
     let mut r = sys.residual(&a);
     report.residual_history.push(norm(&r) / scale);
     // The tangent at the current point when the line search already assembled it.
-    let mut tangent: Option<Vec<f64>> = None;
+    let mut tangent: Option<S::Matrix> = None;
     // The last factorised tangent (one iterate back).
     let mut previous: Option<S::Factor> = None;
     // After a short step the next direction comes from the secant operator.
@@ -264,7 +267,7 @@ fn line_search<S: NonlinearSystem>(
     a: &[f64],
     delta: &[f64],
     r0: &[f64],
-) -> (f64, Vec<f64>, Option<Vec<f64>>) {
+) -> (f64, Vec<f64>, Option<S::Matrix>) {
     let trial = |alpha: f64| {
         let mut t = a.to_vec();
         sys.step(&mut t, delta, alpha);
@@ -369,6 +372,7 @@ mod tests {
 
     impl NonlinearSystem for Cubic {
         type Factor = Diagonal;
+        type Matrix = Vec<f64>;
         fn reference_state(&self) -> Vec<f64> {
             vec![0.0; self.b.len()]
         }
@@ -388,7 +392,7 @@ mod tests {
                 .collect();
             (self.residual(a), m)
         }
-        fn factorize(&self, values: &[f64]) -> Result<Diagonal, SolverError> {
+        fn factorize(&self, values: &Vec<f64>) -> Result<Diagonal, SolverError> {
             Ok(Diagonal(values.to_vec()))
         }
         fn step(&self, a: &mut [f64], delta: &[f64], alpha: f64) {

@@ -74,6 +74,7 @@ impl<'m, 'e> MagnetostaticSystem<'m, 'e> {
 
 impl<'m> NonlinearSystem for MagnetostaticSystem<'m, '_> {
     type Factor = SpdFactor<'m>;
+    type Matrix = Vec<f64>;
 
     fn reference_state(&self) -> Vec<f64> {
         self.with_fixed(&vec![0.0; self.model.mesh.nodes.len()])
@@ -93,7 +94,7 @@ impl<'m> NonlinearSystem for MagnetostaticSystem<'m, '_> {
         )
     }
 
-    fn factorize(&self, values: &[f64]) -> Result<SpdFactor<'m>, SolverError> {
+    fn factorize(&self, values: &Vec<f64>) -> Result<SpdFactor<'m>, SolverError> {
         self.model.symbolic.factorize(values)
     }
 
