@@ -1,7 +1,7 @@
 //! `axicore moment` through the binary: a linear case reaches its tolerance with the estimate
 //! reported per degree, the JSON carries the sequence, a degree cap that stops it first is exit
-//! 4 with the result flagged, and bad input (a saturating core, a bad tolerance) is a one-line
-//! fault with exit 2. No outside source here: the estimate's reliability against closed forms
+//! 4 with the result flagged, a saturating core goes through Newton at every degree, and bad
+//! options are one-line faults with exit 2. No outside source here: the estimate's reliability against closed forms
 //! is checked in the root package's `tests/hp_degree_error_control.rs`.
 
 mod common;
@@ -65,12 +65,30 @@ fn a_degree_cap_before_the_tolerance_is_exit_4_with_the_result_flagged() {
 }
 
 #[test]
-fn a_saturating_core_and_bad_options_are_one_line_faults() {
-    // The built-in example has a saturating core.
-    let (code, out, err) = axicore(&["moment"]);
-    assert_eq!(code, 2, "{out}");
-    assert_eq!(err.trim().lines().count(), 1, "{err}");
-    assert!(err.contains("core.material"), "{err}");
+fn a_saturating_core_is_solved_by_newton_at_every_degree() {
+    // The demo rod with the arctangent law (Js 1.5 T, μri 1000) at a current near its knee.
+    let sat = ROD
+        .replace(
+            "mu_r = 2000",
+            "[core.law]\nkind = \"arctan\"\nsaturation = \"1.5 T\"\ninitial_mu_r = 1000",
+        )
+        .replace("20 mA", "2 A");
+    let case = case_file("sat", &sat);
+    let (code, out, err) = axicore(&["moment", &case, "--tolerance", "1e-5", "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let steps = v["steps"].as_array().unwrap();
+    assert!(
+        steps
+            .iter()
+            .all(|s| s["newton_iterations"].as_u64().unwrap() > 0),
+        "{steps:?}"
+    );
+    assert!(v["estimate_rel"].as_f64().unwrap() <= 1e-5);
+}
+
+#[test]
+fn bad_options_are_one_line_faults() {
     let case = case_file("bad", ROD);
     for bad in ["0", "-1e-3", "2", "nan"] {
         let (code, _, err) = axicore(&["moment", &case, "--tolerance", bad]);

@@ -156,6 +156,20 @@ pub fn raise_degree_with(
     p_max: u32,
     settings: &NewtonSettings,
 ) -> Result<DegreeRun, SolverError> {
+    raise_degree_keeping_field(problem, curved, tolerance, p_min, p_max, settings)
+        .map(|(run, _, _)| run)
+}
+
+/// As [`raise_degree_with`], also returning the last degree's model and solved field (for
+/// maps and point values of the result).
+pub fn raise_degree_keeping_field(
+    problem: &Problem,
+    curved: &[CurvedEdge],
+    tolerance: f64,
+    p_min: u32,
+    p_max: u32,
+    settings: &NewtonSettings,
+) -> Result<(DegreeRun, HpModel, HpSolution), SolverError> {
     let nt = problem.mesh.triangles.len();
     let linear = problem.regions.iter().all(|r| r.material.is_linear());
     let mut steps: Vec<DegreeStep> = Vec::new();
@@ -184,19 +198,15 @@ pub fn raise_degree_with(
             ratio: est.map(|e| e.1),
             newton_iterations,
         });
-        if est.is_some_and(|(e, _)| e <= tolerance) {
-            return Ok(DegreeRun {
-                steps,
-                reached: true,
-            });
+        let reached = est.is_some_and(|(e, _)| e <= tolerance);
+        if reached || p == p_max {
+            return Ok((DegreeRun { steps, reached }, model, sol));
         }
-        if !linear {
-            previous = Some((model, sol));
-        }
+        previous = Some((model, sol));
     }
-    Ok(DegreeRun {
-        steps,
-        reached: false,
+    Err(SolverError::ElementDegree {
+        degree: p_min as usize,
+        max: p_max as usize,
     })
 }
 

@@ -1,6 +1,7 @@
-//! `axicore moment`: the dipole moment of a linear case by hierarchical elements whose degree
-//! rises until the moment's estimated error meets the tolerance (exponential convergence on
-//! exact curved geometry with corner grading).
+//! `axicore moment`: the dipole moment of a case by hierarchical elements whose degree rises
+//! until the moment's estimated error meets the tolerance (exponential convergence on exact
+//! curved geometry with corner grading); saturating cores by Newton's method with continuation
+//! from each degree to the next.
 
 use std::path::PathBuf;
 use std::time::Instant;
@@ -8,14 +9,16 @@ use std::time::Instant;
 use clap::Args;
 
 use super::args::{self, case_name, load, with_threads};
-use super::failure::{run_failure, EXIT_OK, EXIT_TOLERANCE_MISSED};
+use super::failure::{
+    run_failure, EXIT_FAILURE, EXIT_NOT_CONVERGED, EXIT_OK, EXIT_TOLERANCE_MISSED,
+};
 use super::{emit, Failure};
 use crate::hp_geometry::{discretise_hp, first_degree, layers_for, P_MIN, SPLIT_FACTOR};
 use crate::output;
 use axicore_solver::export::hp_map::hp_field_map;
-use axicore_solver::hp::adapt::{raise_degree, DegreeRun};
+use axicore_solver::hp::adapt::{raise_degree_keeping_field, DegreeRun};
 use axicore_solver::hp::sample::MIN_DIVISIONS;
-use axicore_solver::hp::HpModel;
+use axicore_solver::NewtonSettings;
 
 /// Highest degree offered: beyond it the round-off of the moment, not the discretisation,
 /// limits (measured on the torquer rod: p = 8 at 5e-13).
@@ -24,7 +27,7 @@ pub const P_MAX: u32 = 10;
 /// Options of `axicore moment`.
 #[derive(Args, Debug)]
 pub struct MomentArgs {
-    /// Case file (TOML; linear materials); the built-in example's geometry needs a linear core.
+    /// Case file (TOML); the built-in example when omitted.
     case: Option<PathBuf>,
     /// Raise the degree until the estimated relative error of the moment is at most this.
     #[arg(long, value_name = "REL", default_value = "1e-6")]
@@ -64,13 +67,6 @@ pub fn moment(a: MomentArgs, _quiet: bool) -> Result<u8, Failure> {
     }
     let name = case_name(a.case.as_deref());
     let mut case = load(a.case.as_deref())?;
-    let nonlinear = case.core.as_ref().is_some_and(|c| !c.material.is_linear());
-    if nonlinear {
-        return Err(Failure::input(format!(
-            "{name}: core.material: `axicore moment` solves linear cores only so far (give \
-             mu_r); use `axicore solve --tolerance` for a saturating core"
-        )));
-    }
     if case.mesh.corner_layers == 0 {
         case.mesh.corner_layers = layers_for(a.tolerance);
     }
@@ -78,23 +74,25 @@ pub fn moment(a: MomentArgs, _quiet: bool) -> Result<u8, Failure> {
     let want_map = a.vtk.is_some();
     let (run, map, seconds) = with_threads(a.threads, || -> Result<_, Failure> {
         let (problem, curved) = discretise_hp(&case).map_err(|e| run_failure(e, &case, &name))?;
-        let fault = |e: axicore_solver::SolverError| Failure::other(format!("{name}: {e}"));
-        let run = raise_degree(
+        let fault = |e: axicore_solver::SolverError| Failure {
+            code: if matches!(e, axicore_solver::SolverError::NotConverged { .. }) {
+                EXIT_NOT_CONVERGED
+            } else {
+                EXIT_FAILURE
+            },
+            message: format!("{name}: {e}"),
+        };
+        let (run, model, sol) = raise_degree_keeping_field(
             &problem,
             &curved,
             a.tolerance,
             first_degree(a.tolerance).min(a.max_degree - 2),
             a.max_degree,
+            &NewtonSettings::default(),
         )
         .map_err(fault)?;
         let seconds = start.elapsed().as_secs_f64();
-        // The degree sequence keeps no model; the final degree is solved once more for the map
-        // (the same deterministic solve, so the same field).
         let map = if want_map {
-            let p = run.last().degree;
-            let nt = problem.mesh.triangles.len();
-            let model = HpModel::new(problem, &vec![p; nt], curved).map_err(fault)?;
-            let sol = model.solve_linear().map_err(fault)?;
             let labels = crate::vtk_map::labels(&case);
             Some(hp_field_map(&model, &sol, MIN_DIVISIONS, &labels).map_err(fault)?)
         } else {
@@ -121,14 +119,15 @@ pub fn moment(a: MomentArgs, _quiet: bool) -> Result<u8, Failure> {
 fn summary(name: &str, run: &DegreeRun, tolerance: f64, layers: u32, seconds: f64) -> String {
     let mut s = format!(
         "axicore moment — {name}\nhierarchical elements of rising degree on exact curves, \
-         corner grading {layers} layers (factor {SPLIT_FACTOR})\n\n  p   equations   moment (A·m²)        \
+         corner grading {layers} layers (factor {SPLIT_FACTOR})\n\n  p   equations   Newton   moment (A·m²)        \
          estimate\n"
     );
     for st in &run.steps {
         s += &format!(
-            "{:>3} {:>11}   {:<20.13e} {}\n",
+            "{:>3} {:>11} {:>8}   {:<20.13e} {}\n",
             st.degree,
             st.equations,
+            st.newton_iterations,
             st.moment,
             st.estimate.map_or("—".to_string(), |e| format!("{e:.1e}"))
         );
@@ -146,7 +145,7 @@ fn summary(name: &str, run: &DegreeRun, tolerance: f64, layers: u32, seconds: f6
         last.check,
     );
     s += "\nThe estimate is of the discretisation error of the model as posed (geometry, \
-          linear material, currents). Confirm designs by measurement; winding temperature, \
+          B–H law, currents). Confirm designs by measurement; winding temperature, \
           insulation and the applicable standards are outside this model.\n";
     s
 }
@@ -164,6 +163,7 @@ fn json(name: &str, run: &DegreeRun, tolerance: f64, layers: u32, seconds: f64) 
                 "dipole_moment_Am2": st.moment,
                 "dipole_check_Am2": st.check,
                 "estimate_rel": st.estimate,
+                "newton_iterations": st.newton_iterations,
                 "ratio": st.ratio,
             })
         })
