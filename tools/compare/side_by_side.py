@@ -154,9 +154,9 @@ def side_by_side(binary, case, theirs, runs, threads):
         meeting = [r for r in theirs if abs(r["error"]) <= tol]
         pick = min(meeting, key=lambda r: r["time"]) if meeting else None
         best_a, kept, best_l = math.inf, None, math.inf
-        loads = []
+        load_seen = []
         for _ in range(runs):
-            loads.append(os.getloadavg()[0])
+            load_seen.append(os.getloadavg()[0])
             wall, code, data = axicore_run(binary, hp_args(case, tol))
             if wall < best_a:
                 best_a, kept = wall, (code, data)
@@ -164,7 +164,7 @@ def side_by_side(binary, case, theirs, runs, threads):
                 setup = {k: pick[k] for k in ("p", "levels", "factor", "base")}
                 best_l = min(best_l, lib.timed(dict(setup, threads=threads), 1)[0])
         code, data = kept
-        rows[tol] = dict(time=best_a, exit=code, data=data, pick=pick, lib_time=best_l, load=max(loads))
+        rows[tol] = dict(time=best_a, exit=code, data=data, pick=pick, lib_time=best_l, load=max(load_seen))
         log(
             f"axicore moment --tolerance {tol:g}: {best_a:.3f} s (best of {runs}; internal "
             f"{data['seconds']:.3f} s), exit {code}, p {data['degree']}, {data['equations']} equations, "
