@@ -323,14 +323,14 @@ def main():
     print()
     print(
         "| target | axicore hp time | p | equations (unknowns) | true error | estimate "
-        "| library setup | time | unknowns (condensed) | true error | time ratio (axicore / library) "
+        "| library setup | time paired (in the grid) | unknowns (condensed) | true error | time ratio (axicore / library) "
         "| 1-min load | second-order `solve`: time, unknowns, true error |"
     )
     print("|---|---|---|---|---|---|---|---|---|---|---|---|---|")
     for r in rows:
         missed = "" if r[3] == "yes" else " (not reached)"
         lib_cols = (
-            f"p = {r[9]}, {r[10]} levels × {r[11]}, {r[12]} base | {r[13]} s | {r[15]} ({r[16]}) | {r[17]} | {r[18]}×"
+            f"p = {r[9]}, {r[10]} levels × {r[11]}, {r[12]} base | {r[13]} s ({r[14]} s) | {r[15]} ({r[16]}) | {r[17]} | {r[18]}×"
             if r[9] != ""
             else f"— | — | — | {r[17]} | —"
         )
