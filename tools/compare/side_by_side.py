@@ -1,16 +1,20 @@
-"""Side by side on the torquer case of issue 13: axicore `solve --tolerance` against NGSolve.
+"""Side by side on the torquer case of issue 13: axicore's hp route (`axicore moment`) against NGSolve.
 
 Run through tools/compare/run.sh (it makes the private virtual environment and builds the release
 binary). Prints one table and writes it as CSV; every number comes from this run.
 
-  axicore: the release binary, `solve CASE --tolerance T --json`, wall time of the whole process,
-           best of --runs (a run slower than --single-run-above seconds is not repeated: said so).
   library: ngsolve_torquer.solve over a grid of setups (p, grading levels, grading factor, base
            mesh), each timed in this one process after a warm-up run, best of --runs; per accuracy
            target the fastest setup whose true error meets it.
+  axicore: the release binary, `moment HP_CASE --tolerance T --json`, wall time of the whole
+           process (start-up and case parsing included), timed alternately with the library's
+           chosen setup for T (run i of one, then run i of the other, so both see the same load),
+           best of --runs each; the table shows these paired times.
+  second order: `solve CASE --tolerance T --json` for --solve-targets only (whole process, best of
+           --runs), the h-refinement route the comparison used before the hp route existed.
   reference: the library's converged p-sequence on deeply graded meshes (p up to 14), checked on a
-           second base mesh, a second far radius and more exterior modes, and against axicore's own
-           extrapolated sequence.
+           second base mesh, a second far radius and more exterior modes, and against axicore's hp
+           route at the tightest target.
 """
 
 import argparse
@@ -58,64 +62,37 @@ def reference(quick):
     return ref, spread, main, checks
 
 
-def axicore_run(binary, case, tol):
+def axicore_run(binary, args):
+    """One whole `axicore` process: wall time, exit code, parsed JSON."""
     t0 = time.perf_counter()
-    proc = subprocess.run(
-        [binary, "solve", case, "--tolerance", f"{tol:g}", "--json", "--quiet"],
-        capture_output=True,
-        text=True,
-    )
+    proc = subprocess.run([binary, *args, "--json", "--quiet"], capture_output=True, text=True)
     wall = time.perf_counter() - t0
     if proc.returncode not in (0, 4):
-        raise SystemExit(f"axicore failed at tolerance {tol:g} (exit {proc.returncode}): {proc.stderr.strip()}")
+        raise SystemExit(f"axicore {' '.join(args)} failed (exit {proc.returncode}): {proc.stderr.strip()}")
     return wall, proc.returncode, json.loads(proc.stdout)
 
 
-def axicore_side(binary, case, runs, single_above):
+def hp_args(case, tol):
+    return ["moment", case, "--tolerance", f"{tol:g}"]
+
+
+def solve_side(binary, case, targets, runs):
+    """The second-order h-refinement route, `solve --tolerance`, best of `runs` whole processes."""
     rows = {}
-    for tol in TARGETS:
-        best, kept, n = math.inf, None, 0
-        while n < runs:
-            wall, code, data = axicore_run(binary, case, tol)
-            n += 1
+    for tol in targets:
+        best, kept = math.inf, None
+        for _ in range(runs):
+            wall, code, data = axicore_run(binary, ["solve", case, "--tolerance", f"{tol:g}"])
             if wall < best:
                 best, kept = wall, (code, data)
-            if wall > single_above:
-                break
         code, data = kept
-        rows[tol] = dict(time=best, runs=n, exit=code, data=data)
+        rows[tol] = dict(time=best, exit=code, data=data)
         log(
-            f"axicore --tolerance {tol:g}: {best:.3f} s (best of {n}), exit {code}, "
+            f"axicore solve --tolerance {tol:g}: {best:.3f} s (best of {runs}), exit {code}, "
             f"{data['unknowns']} unknowns, moment {data['dipole_moment_Am2']:.12f}, "
             f"estimate {data['estimated_relative_error']}, stopped by {data['refinement_stopped_by']}"
         )
     return rows
-
-
-def axicore_extrapolated(history):
-    """Richardson on the last two levels at the assumed order, and with the order fitted to three.
-
-    Model m(s) = m_inf + C s^q in the size parameter s = N^(-1/2) of the history."""
-    h = [(lvl["size"], lvl["dipole_moment_Am2"]) for lvl in history]
-    (s1, m1), (s2, m2) = h[-2], h[-1]
-    q = history[-1]["order"] or 3.5
-    assumed = m2 + (m2 - m1) / ((s1 / s2) ** q - 1)
-    fitted, q_fit = None, None
-    if len(h) >= 3:
-        s0, m0 = h[-3]
-        target = (m2 - m1) / (m1 - m0) if m1 != m0 else 0.0
-
-        def g(qq):
-            return (s2**qq - s1**qq) / (s1**qq - s0**qq) - target
-
-        lo, hi = 0.2, 12.0
-        if g(lo) * g(hi) < 0:
-            for _ in range(200):
-                mid = 0.5 * (lo + hi)
-                lo, hi = (mid, hi) if g(lo) * g(mid) > 0 else (lo, mid)
-            q_fit = 0.5 * (lo + hi)
-            fitted = m2 + (m2 - m1) / ((s1 / s2) ** q_fit - 1)
-    return assumed, q, fitted, q_fit
 
 
 def library_grid(quick):
@@ -168,6 +145,44 @@ def machine():
     return f"{os.cpu_count()} cores, {model}, Python {platform.python_version()}, NGSolve {lib.ngs.__version__}"
 
 
+def side_by_side(binary, case, theirs, runs, threads):
+    """Per target: axicore's hp route and the library's fastest setup that meets the target in the
+    grid, timed alternately (run i of one, then run i of the other) so both see the same load;
+    best of `runs` each. The grid time of the chosen setup is kept beside it."""
+    rows = {}
+    for tol in TARGETS:
+        meeting = [r for r in theirs if abs(r["error"]) <= tol]
+        pick = min(meeting, key=lambda r: r["time"]) if meeting else None
+        best_a, kept, best_l = math.inf, None, math.inf
+        load_seen = []
+        for _ in range(runs):
+            load_seen.append(os.getloadavg()[0])
+            wall, code, data = axicore_run(binary, hp_args(case, tol))
+            if wall < best_a:
+                best_a, kept = wall, (code, data)
+            if pick:
+                setup = {k: pick[k] for k in ("p", "levels", "factor", "base")}
+                best_l = min(best_l, lib.timed(dict(setup, threads=threads), 1)[0])
+        code, data = kept
+        rows[tol] = dict(time=best_a, exit=code, data=data, pick=pick, lib_time=best_l, load=max(load_seen))
+        log(
+            f"axicore moment --tolerance {tol:g}: {best_a:.3f} s (best of {runs}; internal "
+            f"{data['seconds']:.3f} s), exit {code}, p {data['degree']}, {data['equations']} equations, "
+            f"moment {data['dipole_moment_Am2']:.13f}, estimate {data['estimate_rel']}"
+            + (
+                f"; library p {pick['p']} levels {pick['levels']} factor {pick['factor']}: {best_l:.3f} s "
+                f"(grid {pick['time']:.3f} s)"
+                if pick
+                else "; no library setup of the grid meets it"
+            )
+        )
+    return rows
+
+
+def loads():
+    return ", ".join(f"{x:.2f}" for x in os.getloadavg())
+
+
 def fmt_err(e):
     return f"{e:+.1e}"
 
@@ -175,76 +190,104 @@ def fmt_err(e):
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     ap.add_argument("--axicore", required=True)
-    ap.add_argument("--case", required=True)
+    ap.add_argument("--hp-case", required=True, help="case file for `axicore moment` (the hp route)")
+    ap.add_argument("--case", required=True, help="case file for `axicore solve --tolerance` (second order)")
     ap.add_argument("--csv", required=True)
     ap.add_argument("--runs", type=int, default=3)
-    ap.add_argument("--single-run-above", type=float, default=60.0)
     ap.add_argument("--quick", action="store_true", help="smaller grid and reference sequence (a check of the script)")
     ap.add_argument("--targets", default=",".join(f"{t:g}" for t in TARGETS), help="accuracy targets, comma-separated")
+    ap.add_argument(
+        "--solve-targets",
+        default="1e-3,1e-4,1e-5",
+        help="targets also run through `solve --tolerance` (second order; 14 s at 1e-6 and the node cap "
+        "at 1e-7 here, so the default stops at 1e-5); empty for none",
+    )
     args = ap.parse_args()
     lib.ngs.ngsglobals.msg_level = 0
     TARGETS[:] = [float(t) for t in args.targets.split(",")]
+    solve_targets = [float(t) for t in args.solve_targets.split(",") if t.strip()]
 
     log(f"machine: {machine()}")
+    load_0 = loads()
     ref, spread, seq, checks = reference(args.quick)
-    ours = axicore_side(args.axicore, args.case, args.runs, args.single_run_above)
-    finest = min(ours.values(), key=lambda r: abs(r["data"]["estimated_relative_error"] or 1))
-    assumed, q, fitted, q_fit = axicore_extrapolated(finest["data"]["convergence_history"])
-    load_a = os.getloadavg()
     theirs, threads, cost = library_side(ref, args.runs, args.quick)
-    load_l = os.getloadavg()
+    load_g = loads()
+    pairs = side_by_side(args.axicore, args.hp_case, theirs, args.runs, threads)
+    load_p = loads()
+    second = solve_side(args.axicore, args.case, solve_targets, args.runs)
+    load_s = loads()
 
     header = [
         "target",
-        "axicore_time_s",
-        "axicore_runs",
-        "axicore_outcome",
-        "axicore_unknowns",
-        "axicore_true_error",
-        "axicore_estimate",
+        "axicore_hp_time_s",
+        "axicore_hp_internal_s",
+        "axicore_hp_reached",
+        "axicore_hp_degree",
+        "axicore_hp_equations",
+        "axicore_hp_unknowns",
+        "axicore_hp_true_error",
+        "axicore_hp_estimate",
         "library_p",
         "library_levels",
         "library_factor",
         "library_base_mesh",
         "library_time_s",
+        "library_grid_time_s",
         "library_unknowns",
         "library_condensed_unknowns",
         "library_true_error",
-        "time_ratio_axicore_over_library",
+        "time_ratio_axicore_hp_over_library",
+        "load_1min_max",
+        "axicore_solve_time_s",
+        "axicore_solve_unknowns",
+        "axicore_solve_true_error",
+        "axicore_solve_estimate",
     ]
     rows = []
     for tol in TARGETS:
-        a = ours[tol]
+        a = pairs[tol]
         d = a["data"]
-        outcome = "reached" if d["tolerance_reached"] else f"not reached ({d['refinement_stopped_by']})"
+        last = d["steps"][-1]
         true_a = d["dipole_moment_Am2"] / ref - 1
-        if d["tolerance_reached"] and abs(true_a) > tol:
-            outcome = "reached by the estimate, missed in truth"
-        meeting = [r for r in theirs if abs(r["error"]) <= tol]
-        best = min(meeting, key=lambda r: r["time"]) if meeting else None
+        est = d["estimate_rel"]
         row = [
             f"{tol:g}",
             f"{a['time']:.3f}",
-            a["runs"],
-            outcome,
-            d["unknowns"],
+            f"{d['seconds']:.3f}",
+            "yes" if d["reached"] else "no",
+            d["degree"],
+            d["equations"],
+            last["unknowns"],
             f"{true_a:.2e}",
-            f"{d['estimated_relative_error']:.2e}",
+            f"{est:.2e}" if est is not None else "",
         ]
-        if best:
+        b = a["pick"]
+        if b:
             row += [
-                best["p"],
-                best["levels"],
-                best["factor"],
-                best["base"],
-                f"{best['time']:.3f}",
-                best["ndof"],
-                best["condensed"],
-                f"{best['error']:.2e}",
-                f"{a['time'] / best['time']:.1f}",
+                b["p"],
+                b["levels"],
+                b["factor"],
+                b["base"],
+                f"{a['lib_time']:.3f}",
+                f"{b['time']:.3f}",
+                b["ndof"],
+                b["condensed"],
+                f"{b['error']:.2e}",
+                f"{a['time'] / a['lib_time']:.2f}",
             ]
         else:
-            row += ["", "", "", "", "", "", "", "not reached by the grid", ""]
+            row += ["", "", "", "", "", "", "", "", "not reached by the grid", ""]
+        row.append(f"{a['load']:.2f}")
+        if tol in second:
+            sd = second[tol]["data"]
+            row += [
+                f"{second[tol]['time']:.3f}",
+                sd["unknowns"],
+                f"{sd['dipole_moment_Am2'] / ref - 1:.2e}",
+                f"{sd['estimated_relative_error']:.2e}",
+            ]
+        else:
+            row += ["", "", "", ""]
         rows.append(row)
 
     os.makedirs(os.path.dirname(os.path.abspath(args.csv)), exist_ok=True)
@@ -261,33 +304,40 @@ def main():
                 [r["p"], r["levels"], r["factor"], r["base"], f"{r['time']:.4f}", r["ndof"], r["condensed"], f"{r['error']:.3e}"]
             )
 
+    tight = pairs[min(TARGETS)]["data"]
     print(f"machine: {machine()}")
     print(f"reference dipole moment: {ref:.13f} A·m² (library, p = {seq[-1][0]}, 12 graded levels)")
     print(f"  spread of the checks: {spread:.1e} ({', '.join(f'{k} {v / ref - 1:+.1e}' for k, v in checks.items())})")
     print(
-        f"  axicore's finest run ({finest['data']['unknowns']} unknowns) extrapolated: "
-        f"{assumed:.10f} at the assumed order {q} ({assumed / ref - 1:+.1e}), "
-        + (f"{fitted:.10f} with the order {q_fit:.2f} fitted to the last three levels ({fitted / ref - 1:+.1e})" if fitted else "no three-level fit")
+        f"  axicore's hp route at {min(TARGETS):g}: {tight['dipole_moment_Am2']:.13f} "
+        f"({tight['dipole_moment_Am2'] / ref - 1:+.1e} from the reference, its estimate {tight['estimate_rel']})"
     )
     print(
         f"  library threads: {'task manager, 2 threads' if threads else 'one thread'} "
         f"(probes: task manager {cost[True]:.3f} s, one thread {cost[False]:.3f} s)"
     )
-    print(f"  load average (1, 5, 15 min) after axicore's runs: {load_a}, after the library's: {load_l}")
+    print(
+        f"  load average (1, 5, 15 min): at the start {load_0}, after the library grid {load_g}, "
+        f"after the side-by-side runs {load_p}, after the second-order runs {load_s}"
+    )
     print()
     print(
-        "| target | axicore time | outcome | unknowns | true error | estimate "
-        "| library setup | time | unknowns (condensed) | true error | time ratio |"
+        "| target | axicore hp time | p | equations (unknowns) | true error | estimate "
+        "| library setup | time paired (in the grid) | unknowns (condensed) | true error | time ratio (axicore / library) "
+        "| 1-min load | second-order `solve`: time, unknowns, true error |"
     )
-    print("|---|---|---|---|---|---|---|---|---|---|---|")
+    print("|---|---|---|---|---|---|---|---|---|---|---|---|---|")
     for r in rows:
-        runs = "" if r[2] == args.runs else f" ({r[2]} run)"
+        missed = "" if r[3] == "yes" else " (not reached)"
         lib_cols = (
-            f"p = {r[7]}, {r[8]} levels × {r[9]}, {r[10]} base | {r[11]} s | {r[12]} ({r[13]}) | {r[14]} | {r[15]}×"
-            if r[7] != ""
-            else f"— | — | — | {r[14]} | —"
+            f"p = {r[9]}, {r[10]} levels × {r[11]}, {r[12]} base | {r[13]} s ({r[14]} s) | {r[15]} ({r[16]}) | {r[17]} | {r[18]}×"
+            if r[9] != ""
+            else f"— | — | — | {r[17]} | —"
         )
-        print(f"| {r[0]} | {r[1]} s{runs} | {r[3]} | {r[4]} | {r[5]} | {r[6]} | {lib_cols} |")
+        sec = f"{r[20]} s, {r[21]}, {r[22]}" if r[20] else "not run"
+        print(
+            f"| {r[0]} | {r[1]} s{missed} | {r[4]} | {r[5]} ({r[6]}) | {r[7]} | {r[8]} | {lib_cols} | {r[19]} | {sec} |"
+        )
     print(f"\nCSV: {args.csv} (the whole library grid: {grid_csv})")
 
 
