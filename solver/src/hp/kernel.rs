@@ -186,3 +186,7 @@ pub fn element_system(
         half_r,
     }
 }
+
+#[cfg(test)]
+#[path = "kernel_tests.rs"]
+mod tests;
