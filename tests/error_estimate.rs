@@ -56,7 +56,11 @@ fn check_mode(
         // fix of issue 13 (the two arc edges at the axis, left out of the multipole integrals
         // before) lowered that level's true error from 2.1e-5 to 1.97e-5 with the estimate
         // unchanged (6.1e-5): 0.32. The lower edge is 0.3 for adaptive refinement only.
-        let low = if refine == Refine::Adaptive { 0.3 } else { 1.0 / 3.0 };
+        let low = if refine == Refine::Adaptive {
+            0.3
+        } else {
+            1.0 / 3.0
+        };
         assert!(
             (low..=3.0).contains(&eff),
             "{name}: {} unknowns, true {truth:.3e} estimate {est:.3e} (effectivity {eff:.2})",
