@@ -68,6 +68,33 @@ impl Condensed {
     pub fn recover(&self, outer: &DVector<f64>) -> DVector<f64> {
         &self.kcc_inv_fc - &self.kcc_inv_kco * outer
     }
+
+    /// The condensed system (S, g) for assembly and what recovers the cells after the solve,
+    /// apart: S and g can be dropped once assembled, before the factorisation needs memory.
+    pub fn into_parts(self) -> (DMatrix<f64>, DVector<f64>, Recovery) {
+        (
+            self.s,
+            self.g,
+            Recovery {
+                kcc_inv_kco: self.kcc_inv_kco,
+                kcc_inv_fc: self.kcc_inv_fc,
+            },
+        )
+    }
+}
+
+/// What recovers an element's cell unknowns from its outer ones after the global solve.
+#[derive(Debug, Clone)]
+pub struct Recovery {
+    kcc_inv_kco: DMatrix<f64>,
+    kcc_inv_fc: DVector<f64>,
+}
+
+impl Recovery {
+    /// The cell unknowns u_c = K_cc⁻¹ (f_c − K_co u_o) from the outer ones.
+    pub fn recover(&self, outer: &DVector<f64>) -> DVector<f64> {
+        &self.kcc_inv_fc - &self.kcc_inv_kco * outer
+    }
 }
 
 #[cfg(test)]
