@@ -14,6 +14,7 @@ pub mod dofs;
 pub mod evaluate;
 pub mod exterior;
 pub mod kernel;
+mod knee;
 pub mod locate;
 pub mod map;
 pub mod model;

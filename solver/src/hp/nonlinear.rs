@@ -63,16 +63,16 @@ pub struct HpFactor<'m> {
 /// The hp model's saturating problem, with its caches built eagerly: each element's active
 /// functions, free indices and pattern slots.
 pub struct HpSystem<'m> {
-    model: &'m HpModel,
+    pub(super) model: &'m HpModel,
     /// Per element its functions as basis indices, in local order.
-    active: Vec<Vec<usize>>,
+    pub(super) active: Vec<Vec<usize>>,
     /// Per element, per local function, its free index or [`NO_EQUATION`].
-    free: Vec<Vec<u32>>,
+    pub(super) free: Vec<Vec<u32>>,
     /// Per element its lower-triangle pattern slots over the outer functions (row-major,
     /// [`NO_EQUATION`] where a pair has no slot).
     slots: Vec<Vec<u32>>,
     /// Global dof of each free index.
-    free_dofs: Vec<u32>,
+    pub(super) free_dofs: Vec<u32>,
 }
 
 /// Free index of every local function of element `t`: its outer equation, or n_eq + its
@@ -146,7 +146,7 @@ impl<'m> HpSystem<'m> {
     }
 
     /// The tabulation element `t` is integrated with.
-    fn tab(&self, t: usize) -> &'m Tabulation {
+    pub(super) fn tab(&self, t: usize) -> &'m Tabulation {
         let m = self.model;
         let ed = m.dofs.element(t);
         let p = ed.degree as usize;
@@ -154,7 +154,7 @@ impl<'m> HpSystem<'m> {
     }
 
     /// What drives element `t`.
-    fn drive(&self, t: usize) -> ElementDrive<'m> {
+    pub(super) fn drive(&self, t: usize) -> ElementDrive<'m> {
         let props = self.model.element_props(t);
         ElementDrive {
             b0: self.model.background,
@@ -165,7 +165,7 @@ impl<'m> HpSystem<'m> {
     }
 
     /// Element `t`'s residual and matrix at the global coefficients `u`.
-    fn element(
+    pub(super) fn element(
         &self,
         t: usize,
         u: &[f64],
@@ -346,6 +346,10 @@ impl<'m> NonlinearSystem for HpSystem<'m> {
             .map(|&d| u[d as usize] * u[d as usize])
             .sum::<f64>()
             .sqrt()
+    }
+
+    fn relax(&self, u: &mut [f64], r: &[f64], floor: f64) -> usize {
+        self.relax_knee(u, r, floor)
     }
 }
 

@@ -175,3 +175,28 @@ pub fn source_moment(
 #[cfg(test)]
 #[path = "nonlinear_terms_tests.rs"]
 mod tests;
+
+/// Whether the element's field sits on the knee of its law at some quadrature point: the
+/// differential reluctivity above `ratio` times the secant one (where the tangent changes by
+/// orders of magnitude within one Newton step).
+pub fn on_knee(
+    map: &ElementMap,
+    tab: &Tabulation,
+    active: &[usize],
+    u: &[f64],
+    drive: &ElementDrive,
+    ratio: f64,
+) -> bool {
+    if drive.material.is_linear() {
+        return false;
+    }
+    let mut knee = false;
+    for_each_point(map, tab, active, u, drive.b0, drive.j0, |_, p| {
+        if !knee {
+            let bm = (p.b[0] * p.b[0] + p.b[1] * p.b[1]).sqrt();
+            let (nu, nu_d) = drive.material.reluctivities(bm);
+            knee = nu_d > ratio * nu;
+        }
+    });
+    knee
+}
