@@ -66,15 +66,7 @@ impl Pattern {
                 }
             }
         }
-        let mut col_ptr = Vec::with_capacity(n + 1);
-        let mut row_idx = Vec::new();
-        col_ptr.push(0);
-        for c in &mut cols {
-            c.sort_unstable();
-            c.dedup();
-            row_idx.extend_from_slice(c);
-            col_ptr.push(row_idx.len());
-        }
+        let (col_ptr, row_idx) = compress(cols);
         let mut slots = Vec::with_capacity(mesh.triangles.len() * ne * ne);
         for t in 0..mesh.triangles.len() {
             let nodes = mesh.element_nodes(t);
@@ -116,15 +108,7 @@ impl Pattern {
                 }
             }
         }
-        let mut col_ptr = Vec::with_capacity(n + 1);
-        let mut row_idx = Vec::new();
-        col_ptr.push(0);
-        for c in &mut cols {
-            c.sort_unstable();
-            c.dedup();
-            row_idx.extend_from_slice(c);
-            col_ptr.push(row_idx.len());
-        }
+        let (col_ptr, row_idx) = compress(cols);
         Self {
             n,
             nodes_per_element: 0,
@@ -147,4 +131,19 @@ impl Pattern {
     pub fn nnz(&self) -> usize {
         self.row_idx.len()
     }
+}
+
+/// Column pointers and sorted, deduplicated row indices of lower-triangle columns given as
+/// unsorted lists with repeats.
+fn compress(mut cols: Vec<Vec<usize>>) -> (Vec<usize>, Vec<usize>) {
+    let mut col_ptr = Vec::with_capacity(cols.len() + 1);
+    let mut row_idx = Vec::new();
+    col_ptr.push(0);
+    for c in &mut cols {
+        c.sort_unstable();
+        c.dedup();
+        row_idx.extend_from_slice(c);
+        col_ptr.push(row_idx.len());
+    }
+    (col_ptr, row_idx)
 }

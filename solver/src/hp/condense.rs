@@ -37,25 +37,19 @@ impl Condensed {
         cells: usize,
         element: usize,
     ) -> Result<Self, SolverError> {
-        let n = k.nrows();
-        let no = n - cells;
-        if cells == 0 {
+        let no = k.nrows() - cells;
+        let (s, chol, kcc_inv_kco) =
+            schur(k, cells).ok_or(SolverError::CellCondensation { element })?;
+        let Some(chol) = chol else {
             return Ok(Self {
-                s: k.clone(),
+                s,
                 g: f.clone(),
-                kcc_inv_kco: DMatrix::zeros(0, no),
+                kcc_inv_kco,
                 kcc_inv_fc: DVector::zeros(0),
             });
-        }
-        let kcc = k.view((no, no), (cells, cells)).clone_owned();
-        let chol: Cholesky<f64, Dyn> =
-            Cholesky::new(kcc).ok_or(SolverError::CellCondensation { element })?;
-        let kco = k.view((no, 0), (cells, no)).clone_owned();
-        let kcc_inv_kco = chol.solve(&kco);
+        };
         let kcc_inv_fc = chol.solve(&f.rows(no, cells).clone_owned());
-        let koc = k.view((0, no), (no, cells));
-        let s = k.view((0, 0), (no, no)) - koc * &kcc_inv_kco;
-        let g = f.rows(0, no) - koc * &kcc_inv_fc;
+        let g = f.rows(0, no) - k.view((0, no), (no, cells)) * &kcc_inv_fc;
         Ok(Self {
             s,
             g,
@@ -81,6 +75,23 @@ impl Condensed {
             },
         )
     }
+}
+
+/// (S, the Cholesky factor of K_cc if there are cells, X = K_cc⁻¹ K_co).
+pub type Schur = (DMatrix<f64>, Option<Cholesky<f64, Dyn>>, DMatrix<f64>);
+
+/// The Schur complement S = K_oo − K_oc K_cc⁻¹ K_co of `k` (its last `cells` unknowns the
+/// cell ones), the Cholesky factor of K_cc (None without cells) and X = K_cc⁻¹ K_co; None when
+/// K_cc is not positive definite. Shared by the linear solve and the Newton tangent.
+pub fn schur(k: &DMatrix<f64>, cells: usize) -> Option<Schur> {
+    let no = k.nrows() - cells;
+    if cells == 0 {
+        return Some((k.clone(), None, DMatrix::zeros(0, no)));
+    }
+    let chol = Cholesky::new(k.view((no, no), (cells, cells)).clone_owned())?;
+    let x = chol.solve(&k.view((no, 0), (cells, no)).clone_owned());
+    let s = k.view((0, 0), (no, no)) - k.view((0, no), (no, cells)) * &x;
+    Some((s, Some(chol), x))
 }
 
 /// What recovers an element's cell unknowns from its outer ones after the global solve.

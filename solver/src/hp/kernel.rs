@@ -12,6 +12,61 @@ use nalgebra::{DMatrix, DVector};
 use super::map::ElementMap;
 use super::tabulation::Tabulation;
 
+/// The basis of an element at one quadrature point.
+pub struct PointBasis<'b> {
+    /// Physical (r, z), m.
+    pub x: [f64; 2],
+    /// Volume measure dV = 2π r |det J| w/2, m³.
+    pub dv: f64,
+    /// (B_r, B_z)(φ_a) of each active function.
+    pub curl: &'b [[f64; 2]],
+    /// φ_a of each active function.
+    pub phi: &'b [f64],
+}
+
+/// Calls `visit` at every quadrature point of `tab` with the values and B-operators of the
+/// functions `active` of the element with map `map`: the one loop every element integral of
+/// the hp model runs (J⁻ᵀ once per point; the Jacobian once per element when it is affine).
+pub fn for_each_point(
+    map: &ElementMap,
+    tab: &Tabulation,
+    active: &[usize],
+    mut visit: impl FnMut(usize, &PointBasis),
+) {
+    let n = active.len();
+    let mut curl = vec![[0.0; 2]; n];
+    let mut phi = vec![0.0; n];
+    let affine = map.is_affine().then(|| map.jacobian(0.0, 0.0));
+    for q in 0..tab.points() {
+        let [xi, eta] = tab.point(q);
+        let x = map.position(xi, eta);
+        let jac = affine.unwrap_or_else(|| map.jacobian(xi, eta));
+        // Reference weights are fractions of the reference area ½.
+        let dv = 2.0 * std::f64::consts::PI * x[0] * jac.det().abs() * 0.5 * tab.weight(q);
+        let inv = jac.inverse();
+        let inv_r = 1.0 / x[0];
+        let values = tab.values(q);
+        let grads = tab.grads(q);
+        for (a, &i) in active.iter().enumerate() {
+            let v = values[i];
+            let g = grads[i];
+            let dr = inv[0][0] * g[0] + inv[1][0] * g[1];
+            let dz = inv[0][1] * g[0] + inv[1][1] * g[1];
+            curl[a] = [-dz, dr + v * inv_r];
+            phi[a] = v;
+        }
+        visit(
+            q,
+            &PointBasis {
+                x,
+                dv,
+                curl: &curl,
+                phi: &phi,
+            },
+        );
+    }
+}
+
 /// The B-operators and values of an element's active functions at its quadrature points.
 #[derive(Debug, Clone)]
 pub struct ElementPoints {
@@ -37,30 +92,12 @@ impl ElementPoints {
         let mut dv = Vec::with_capacity(nq);
         let mut phi = Vec::with_capacity(nq * n);
         let mut curl = Vec::with_capacity(nq * n);
-        let affine = map.is_affine().then(|| map.jacobian(0.0, 0.0));
-        for q in 0..nq {
-            let [xi, eta] = tab.point(q);
-            let p = map.position(xi, eta);
-            let jac = affine.unwrap_or_else(|| map.jacobian(xi, eta));
-            // Reference weights are fractions of the reference area ½.
-            let da = jac.det().abs() * 0.5 * tab.weight(q);
-            let r = p[0];
-            x.push(p);
-            dv.push(2.0 * std::f64::consts::PI * r * da);
-            let values = tab.values(q);
-            let grads = tab.grads(q);
-            // J⁻ᵀ once per point, not per function.
-            let inv = jac.inverse();
-            let inv_r = 1.0 / r;
-            for &i in active {
-                let v = values[i];
-                let g = grads[i];
-                let dr = inv[0][0] * g[0] + inv[1][0] * g[1];
-                let dz = inv[0][1] * g[0] + inv[1][1] * g[1];
-                phi.push(v);
-                curl.push([-dz, dr + v * inv_r]);
-            }
-        }
+        for_each_point(map, tab, active, |_, p| {
+            x.push(p.x);
+            dv.push(p.dv);
+            phi.extend_from_slice(p.phi);
+            curl.extend_from_slice(p.curl);
+        });
         Self {
             n,
             x,
@@ -149,32 +186,19 @@ pub fn element_system(
     let mut f = DVector::zeros(n);
     let mut bz = DVector::zeros(n);
     let (mut volume, mut half_r) = (0.0, 0.0);
-    let affine = map.is_affine().then(|| map.jacobian(0.0, 0.0));
-    for q in 0..nq {
-        let [xi, eta] = tab.point(q);
-        let r = map.position(xi, eta)[0];
-        let jac = affine.unwrap_or_else(|| map.jacobian(xi, eta));
-        let dv = 2.0 * std::f64::consts::PI * r * jac.det().abs() * 0.5 * tab.weight(q);
+    for_each_point(map, tab, active, |q, p| {
+        let dv = p.dv;
         volume += dv;
-        half_r += 0.5 * r * dv;
-        let inv = jac.inverse();
-        let inv_r = 1.0 / r;
+        half_r += 0.5 * p.x[0] * dv;
         let w = (nu * dv).sqrt();
-        let values = tab.values(q);
-        let grads = tab.grads(q);
-        let (c0, c1) = (2 * q, 2 * q + 1);
-        for (a, &i) in active.iter().enumerate() {
-            let v = values[i];
-            let gr = grads[i];
-            let dr = inv[0][0] * gr[0] + inv[1][0] * gr[1];
-            let dz = inv[0][1] * gr[0] + inv[1][1] * gr[1];
-            let cz = dr + v * inv_r;
-            g[(a, c0)] = -w * dz;
-            g[(a, c1)] = w * cz;
+        for a in 0..n {
+            let [cr, cz] = p.curl[a];
+            g[(a, 2 * q)] = w * cr;
+            g[(a, 2 * q + 1)] = w * cz;
             bz[a] += cz * dv;
-            f[a] += j * v * dv;
+            f[a] += j * p.phi[a] * dv;
         }
-    }
+    });
     if s != 0.0 {
         f.axpy(s, &bz, 1.0);
     }

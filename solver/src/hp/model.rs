@@ -311,19 +311,7 @@ impl HpModel {
                 .into_par_iter()
                 .map(|t| {
                     let c = self.condensed(t)?;
-                    let eqs = self.outer_equations(t);
-                    let mut slots = Vec::with_capacity(eqs.len() * eqs.len());
-                    for &i in &eqs {
-                        for &j in &eqs {
-                            slots.push(if i == NO_EQUATION || j == NO_EQUATION || j > i {
-                                NO_EQUATION
-                            } else {
-                                self.pattern
-                                    .slot(i as usize, j as usize)
-                                    .expect("in pattern")
-                            });
-                        }
-                    }
+                    let (eqs, slots) = self.element_slots(t)?;
                     Ok((c, eqs, slots))
                 })
                 .collect::<Result<_, SolverError>>()?;
@@ -388,6 +376,27 @@ impl HpModel {
             b0: self.background,
             source_moment: moment,
         })
+    }
+
+    /// Element `t`'s outer equations and, row-major over them, the pattern slot of each
+    /// lower-triangle pair ([`NO_EQUATION`] for fixed unknowns and the upper triangle).
+    pub(super) fn element_slots(&self, t: usize) -> Result<(Vec<u32>, Vec<u32>), SolverError> {
+        let eqs = self.outer_equations(t);
+        let mut slots = Vec::with_capacity(eqs.len() * eqs.len());
+        for &i in &eqs {
+            for &j in &eqs {
+                slots.push(if i == NO_EQUATION || j == NO_EQUATION || j > i {
+                    NO_EQUATION
+                } else {
+                    self.pattern.slot(i as usize, j as usize).ok_or_else(|| {
+                        SolverError::Factorization(format!(
+                            "element {t}: equations {i}, {j} missing from the pattern"
+                        ))
+                    })?
+                });
+            }
+        }
+        Ok((eqs, slots))
     }
 
     /// Equation numbers of element `t`'s outer (vertex and edge) functions, in local order.

@@ -24,6 +24,7 @@ use std::sync::Arc;
 use nalgebra::{Cholesky, DMatrix, DVector, Dyn};
 use rayon::prelude::*;
 
+use super::condense::schur;
 use super::model::{rule_degree, HpModel, HpSolution, NO_EQUATION};
 use super::nonlinear_terms::{residual_and_tangent, source_moment, ElementDrive};
 use super::tabulation::Tabulation;
@@ -102,21 +103,7 @@ impl<'m> HpSystem<'m> {
             .into_par_iter()
             .map(|t| {
                 let (_, active) = model.active(t)?;
-                let eqs = model.outer_equations(t);
-                let mut slots = Vec::with_capacity(eqs.len() * eqs.len());
-                for &i in &eqs {
-                    for &j in &eqs {
-                        slots.push(if i == NO_EQUATION || j == NO_EQUATION || j > i {
-                            NO_EQUATION
-                        } else {
-                            model.pattern.slot(i as usize, j as usize).ok_or(
-                                SolverError::Factorization(format!(
-                                    "element {t}: equations {i}, {j} missing from the pattern"
-                                )),
-                            )?
-                        });
-                    }
-                }
+                let (_, slots) = model.element_slots(t)?;
                 Ok((active, free_indices(model, t), slots))
             })
             .collect::<Result<_, SolverError>>()?;
@@ -357,24 +344,8 @@ impl<'m> NonlinearSystem for HpSystem<'m> {
 /// over the outer unknowns and its factorised cell block (None when K_cc is not positive
 /// definite).
 fn condense(k: &DMatrix<f64>, cells: usize) -> Option<(DMatrix<f64>, CellBlock)> {
-    let no = k.nrows() - cells;
-    if cells == 0 {
-        let block = CellBlock {
-            chol: None,
-            x: DMatrix::zeros(0, no),
-        };
-        return Some((k.clone(), block));
-    }
-    let chol = Cholesky::new(k.view((no, no), (cells, cells)).clone_owned())?;
-    let x = chol.solve(&k.view((no, 0), (cells, no)).clone_owned());
-    let s = k.view((0, 0), (no, no)) - k.view((0, no), (no, cells)) * &x;
-    Some((
-        s,
-        CellBlock {
-            chol: Some(chol),
-            x,
-        },
-    ))
+    let (s, chol, x) = schur(k, cells)?;
+    Some((s, CellBlock { chol, x }))
 }
 
 impl Factor for HpFactor<'_> {

@@ -16,6 +16,7 @@
 
 use nalgebra::{DMatrix, DVector};
 
+use super::kernel;
 use super::map::ElementMap;
 use super::tabulation::Tabulation;
 use crate::constants::MU0;
@@ -49,9 +50,9 @@ struct PointField<'b> {
     phi: &'b [f64],
 }
 
-/// Calls `visit` at every quadrature point of the element with map `map`, functions `active`
-/// of `tab` and local coefficients `u` (Wb/m), with B' from background `b0` and polarization
-/// `j0`.
+/// Calls `visit` at every quadrature point of the element (see [`kernel::for_each_point`])
+/// with the field B' = B − J0 e_z of local coefficients `u` (Wb/m), background `b0` and
+/// polarization `j0`.
 fn for_each_point(
     map: &ElementMap,
     tab: &Tabulation,
@@ -61,42 +62,23 @@ fn for_each_point(
     j0: f64,
     mut visit: impl FnMut(usize, &PointField),
 ) {
-    let n = active.len();
-    let mut curl = vec![[0.0; 2]; n];
-    let mut phi = vec![0.0; n];
-    let affine = map.is_affine().then(|| map.jacobian(0.0, 0.0));
-    for q in 0..tab.points() {
-        let [xi, eta] = tab.point(q);
-        let r = map.position(xi, eta)[0];
-        let jac = affine.unwrap_or_else(|| map.jacobian(xi, eta));
-        let dv = 2.0 * std::f64::consts::PI * r * jac.det().abs() * 0.5 * tab.weight(q);
-        let inv = jac.inverse();
-        let inv_r = 1.0 / r;
-        let values = tab.values(q);
-        let grads = tab.grads(q);
+    kernel::for_each_point(map, tab, active, |q, p| {
         let mut b = [0.0, b0 - j0];
-        for (a, &i) in active.iter().enumerate() {
-            let v = values[i];
-            let g = grads[i];
-            let dr = inv[0][0] * g[0] + inv[1][0] * g[1];
-            let dz = inv[0][1] * g[0] + inv[1][1] * g[1];
-            let c = [-dz, dr + v * inv_r];
-            curl[a] = c;
-            phi[a] = v;
-            b[0] += u[a] * c[0];
-            b[1] += u[a] * c[1];
+        for (ua, c) in u.iter().zip(p.curl) {
+            b[0] += ua * c[0];
+            b[1] += ua * c[1];
         }
         visit(
             q,
             &PointField {
-                r,
-                dv,
+                r: p.x[0],
+                dv: p.dv,
                 b,
-                curl: &curl,
-                phi: &phi,
+                curl: p.curl,
+                phi: p.phi,
             },
         );
-    }
+    });
 }
 
 /// Residual R_a and, unless `tangent` is [`Tangent::None`], the matrix (consistent tangent or
